@@ -1,0 +1,105 @@
+"""Clock times and minute values, parsed exactly into whole seconds.
+
+Times are seconds after midnight of the plan day.  ``HH:MM`` may go past 23
+(``25:30`` is 01:30 next morning, as transit timetables write it).  Minute
+values are parsed as decimals, never as binary floats, so ``12.3`` minutes is
+exactly 738 seconds; anything finer than a second is rounded *up*.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from datetime import date, datetime, time, timedelta
+from decimal import Decimal, InvalidOperation
+
+__all__ = ["ClockValue", "parse_clock", "parse_minutes", "format_clock",
+           "format_minutes", "resolve_clock"]
+
+_HHMM = re.compile(r"^(\d{1,2}):(\d{2})(?::(\d{2}))?$")
+MAX_HOURS = 48  # a plan day plus the following night; more is almost surely a typo
+
+
+class ClockValue:
+    """A parsed time: either seconds after the plan day's midnight, or a date-time.
+
+    A date-time cannot be turned into seconds until the plan date is known
+    (the earliest date among the file's date-times), hence this small holder.
+    """
+
+    __slots__ = ("seconds", "moment")
+
+    def __init__(self, seconds: int | None = None, moment: datetime | None = None):
+        self.seconds = seconds
+        self.moment = moment
+
+
+def parse_clock(text: str) -> ClockValue:
+    """Parse ``HH:MM[:SS]`` (hours 0-47) or an ISO 8601 date-time.
+
+    Raises ``ValueError`` with a dispatcher-readable reason.
+    """
+    text = text.strip()
+    m = _HHMM.match(text)
+    if m:
+        hours, minutes, seconds = int(m[1]), int(m[2]), int(m[3] or 0)
+        if minutes > 59 or seconds > 59:
+            raise ValueError(f"'{text}' is not a clock time (minutes and seconds go up to 59)")
+        if hours >= MAX_HOURS:
+            raise ValueError(f"'{text}' is too late: hours go up to {MAX_HOURS - 1} "
+                             "(24-47 mean the next day)")
+        return ClockValue(seconds=hours * 3600 + minutes * 60 + seconds)
+    if len(text) >= 16 and text[:4].isdigit() and text[4] == "-" and text[10] in "T ":
+        try:
+            moment = datetime.fromisoformat(text)
+        except ValueError:
+            pass
+        else:
+            return ClockValue(moment=moment)
+    raise ValueError(f"'{text}' is not a time; write HH:MM (e.g. 07:45, or 25:30 for "
+                     "01:30 next day) or an ISO date-time (2026-12-02T07:45)")
+
+
+def resolve_clock(value: ClockValue, plan_date: date | None) -> int:
+    """Seconds after the plan day's midnight for a parsed value."""
+    if value.moment is None:
+        return int(value.seconds)  # type: ignore[arg-type]
+    assert plan_date is not None
+    midnight = datetime.combine(plan_date, time(0), tzinfo=value.moment.tzinfo)
+    delta = value.moment - midnight
+    return math.ceil(delta / timedelta(seconds=1))
+
+
+def parse_minutes(text: str, *, allow_zero: bool = True) -> int:
+    """Minutes as written (decimals allowed) to whole seconds, rounded up."""
+    text = text.strip()
+    try:
+        value = Decimal(text)
+    except InvalidOperation:
+        raise ValueError(f"'{text}' is not a number of minutes") from None
+    if not value.is_finite():
+        raise ValueError(f"'{text}' is not a number of minutes")
+    if value < 0 or (value == 0 and not allow_zero):
+        raise ValueError(f"'{text}' minutes: must be {'zero or ' if allow_zero else ''}"
+                         "more than zero")
+    if value > 100_000:
+        raise ValueError(f"'{text}' minutes is more than two months; check the value")
+    return int(math.ceil(value * 60))
+
+
+def format_clock(seconds: int | float) -> str:
+    """``HH:MM`` (hours past 23 for the next day); seconds are shown only if set."""
+    seconds = int(seconds)
+    sign = "-" if seconds < 0 else ""
+    seconds = abs(seconds)
+    h, rest = divmod(seconds, 3600)
+    m, s = divmod(rest, 60)
+    return f"{sign}{h:02d}:{m:02d}" + (f":{s:02d}" if s else "")
+
+
+def format_minutes(seconds: int | float) -> str:
+    """Minutes for display: whole minutes when exact, else one decimal."""
+    minutes = seconds / 60
+    if float(minutes).is_integer():
+        return str(int(minutes))
+    return f"{minutes:.1f}"

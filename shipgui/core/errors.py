@@ -1,0 +1,85 @@
+"""One error family for everything a dispatcher can get wrong in the input.
+
+Every error carries the file, the row and the column where there is one, and a
+sentence in the dispatcher's words.  Code that loads files collects several
+problems of one file and raises them together as :class:`InputErrors`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+
+__all__ = ["InputError", "InputErrors", "Problem", "PlanNotVerified"]
+
+
+@dataclass(frozen=True)
+class Problem:
+    """One problem found in the input: where it is and what is wrong."""
+
+    message: str
+    file: str | None = None
+    row: int | None = None
+    column: str | None = None
+
+    def __str__(self) -> str:
+        where = []
+        if self.file:
+            where.append(Path(self.file).name)
+        if self.row is not None:
+            where.append(f"row {self.row}")
+        if self.column:
+            where.append(f"column '{self.column}'")
+        return (", ".join(where) + ": " if where else "") + self.message
+
+
+class InputError(Exception):
+    """Bad input: a file, a row, a column and what is wrong with it."""
+
+    def __init__(self, message: str, *, file: str | Path | None = None,
+                 row: int | None = None, column: str | None = None) -> None:
+        self.problem = Problem(message, None if file is None else str(file), row, column)
+        super().__init__(str(self.problem))
+
+    @property
+    def problems(self) -> tuple[Problem, ...]:
+        return (self.problem,)
+
+    @property
+    def file(self) -> str | None:
+        return self.problem.file
+
+    @property
+    def row(self) -> int | None:
+        return self.problem.row
+
+    @property
+    def column(self) -> str | None:
+        return self.problem.column
+
+
+class InputErrors(InputError):
+    """Several problems found together (all problems of one file, up to a limit)."""
+
+    def __init__(self, problems: list[Problem], *, more: int = 0) -> None:
+        if not problems:
+            raise ValueError("InputErrors needs at least one problem")
+        self._problems = tuple(problems)
+        self.more = more
+        first = problems[0]
+        super().__init__(first.message, file=first.file, row=first.row, column=first.column)
+        lines = [str(p) for p in problems]
+        if more:
+            lines.append(f"... and {more} more problems")
+        self.args = ("\n".join(lines),)
+
+    @property
+    def problems(self) -> tuple[Problem, ...]:
+        return self._problems
+
+    def __str__(self) -> str:
+        return self.args[0]
+
+
+class PlanNotVerified(RuntimeError):
+    """The independent check of a plan failed: the plan must not be presented."""

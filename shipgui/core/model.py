@@ -1,0 +1,171 @@
+"""The records of a planning day: jobs, sites, settings, the validated day, the plan."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from datetime import date
+
+import numpy as np
+
+__all__ = ["Job", "Site", "Settings", "Day", "Plan", "DEFAULT_SPEED_KMH",
+           "DEFAULT_CIRCUITY"]
+
+# Straight-line distance times a circuity factor gives road distance.  1.20 is
+# the mean road circuity measured for the USA in Ballou, Rahardja & Sakai,
+# "Selected country circuity factors for road travel distance estimation",
+# Transportation Research Part A 36(9), 2002, Table 1.
+DEFAULT_CIRCUITY = 1.20
+# Average door-to-door speed of a loaded truck on regional mixed roads: an
+# assumption (common practice for first estimates), to be set per region.
+DEFAULT_SPEED_KMH = 50.0
+
+
+@dataclass(frozen=True)
+class Job:
+    """One booked job: the vehicle is busy from ``start`` at ``origin`` until
+    ``end`` at ``destination``.  Times are seconds after the plan day's midnight."""
+
+    id: str
+    origin: str
+    destination: str
+    start: int
+    end: int
+    vehicle_class: str = ""
+    customer: str = ""
+    reference: str = ""
+    notes: str = ""
+    row: int = 0  # row in the jobs file (header is row 1), for messages
+
+
+@dataclass(frozen=True)
+class Site:
+    """A place jobs start or end at; coordinates are optional."""
+
+    id: str
+    name: str = ""
+    address: str = ""
+    lat: float | None = None
+    lon: float | None = None
+    x_km: float | None = None
+    y_km: float | None = None
+
+    @property
+    def has_latlon(self) -> bool:
+        return self.lat is not None and self.lon is not None
+
+    @property
+    def has_xy(self) -> bool:
+        return self.x_km is not None and self.y_km is not None
+
+    @property
+    def label(self) -> str:
+        return self.name or self.id
+
+
+@dataclass(frozen=True)
+class Settings:
+    """Planning settings a dispatcher chooses.  Times in seconds."""
+
+    turnaround: int = 0
+    depot: str | None = None
+    day_start: int | None = None
+    day_end: int | None = None
+    speed_kmh: float = DEFAULT_SPEED_KMH
+    circuity: float = DEFAULT_CIRCUITY
+
+
+def _frozen(a: np.ndarray) -> np.ndarray:
+    a = np.ascontiguousarray(a)
+    a.setflags(write=False)
+    return a
+
+
+@dataclass(frozen=True, eq=False)
+class Day:
+    """A validated planning day: every job checked, travel closed under shortest paths.
+
+    Array views (``start``, ``end``, ``origin``, ``destination``, ``vclass``)
+    are indexed like ``jobs``; ``travel[a, b]`` is seconds from site index a to b.
+    """
+
+    jobs: tuple[Job, ...]
+    site_ids: tuple[str, ...]
+    sites: dict[str, Site]
+    travel: np.ndarray
+    settings: Settings
+    warnings: tuple[str, ...] = ()
+    shortened_pairs: int = 0
+    estimated_pairs: int = 0
+    plan_date: date | None = None
+    sources: dict[str, str] = field(default_factory=dict)
+    fingerprint: str = ""
+
+    def __post_init__(self) -> None:
+        index = {s: k for k, s in enumerate(self.site_ids)}
+        classes = sorted({j.vehicle_class for j in self.jobs})
+        class_index = {c: k for k, c in enumerate(classes)}
+        n = len(self.jobs)
+        arrays = {
+            "start": np.fromiter((j.start for j in self.jobs), np.int64, n),
+            "end": np.fromiter((j.end for j in self.jobs), np.int64, n),
+            "origin": np.fromiter((index[j.origin] for j in self.jobs), np.int64, n),
+            "destination": np.fromiter((index[j.destination] for j in self.jobs), np.int64, n),
+            "vclass": np.fromiter((class_index[j.vehicle_class] for j in self.jobs), np.int64, n),
+        }
+        for name, value in arrays.items():
+            object.__setattr__(self, name, _frozen(value))
+        object.__setattr__(self, "class_names", tuple(classes))
+        object.__setattr__(self, "site_index", index)
+        object.__setattr__(self, "job_index", {j.id: k for k, j in enumerate(self.jobs)})
+        object.__setattr__(self, "travel", _frozen(np.asarray(self.travel, dtype=np.int64)))
+
+    # Declared for type checkers; set in __post_init__.
+    start: np.ndarray = field(init=False, repr=False)
+    end: np.ndarray = field(init=False, repr=False)
+    origin: np.ndarray = field(init=False, repr=False)
+    destination: np.ndarray = field(init=False, repr=False)
+    vclass: np.ndarray = field(init=False, repr=False)
+    class_names: tuple[str, ...] = field(init=False, repr=False)
+    site_index: dict[str, int] = field(init=False, repr=False)
+    job_index: dict[str, int] = field(init=False, repr=False)
+
+    @property
+    def n(self) -> int:
+        return len(self.jobs)
+
+    def travel_between(self, a: str, b: str) -> int:
+        """Seconds from site ``a`` to site ``b`` (after the closure)."""
+        return int(self.travel[self.site_index[a], self.site_index[b]])
+
+    def site_label(self, site_id: str) -> str:
+        site = self.sites.get(site_id)
+        return site.label if site else site_id
+
+
+@dataclass(frozen=True, eq=False)
+class Plan:
+    """A minimum-fleet plan with its certificate.
+
+    ``routes`` and ``certificate`` hold job indices into ``day.jobs``.
+    """
+
+    day: Day
+    routes: tuple[tuple[int, ...], ...]
+    certificate: tuple[int, ...]
+    verified: bool
+    timings: dict[str, float] = field(default_factory=dict)
+    kernel: str = ""
+    deadhead_seconds: int = 0
+    route_deadhead_seconds: tuple[int, ...] = ()
+    tradeoff: tuple[tuple[int, int], ...] = ()
+    verification_failures: tuple[str, ...] = ()
+
+    @property
+    def vehicles(self) -> int:
+        return len(self.routes)
+
+    def route_ids(self) -> list[list[str]]:
+        return [[self.day.jobs[k].id for k in route] for route in self.routes]
+
+    def certificate_ids(self) -> list[str]:
+        return [self.day.jobs[k].id for k in self.certificate]

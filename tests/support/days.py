@@ -1,0 +1,44 @@
+"""Generated days for tests and benchmarks (invented data, no real places)."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from shipgui.core.model import Job, Settings, Site
+from shipgui.core.readers import build_day
+
+
+def random_day(n: int, sites: int, *, seed: int = 0, classes: int = 1,
+               turnaround_min: int = 5, max_travel_min: int = 40, horizon_min: int = 600,
+               settings: Settings | None = None):
+    """A day with a random (unclosed) travel matrix in whole minutes."""
+    rng = np.random.default_rng(seed)
+    t = rng.integers(0, max_travel_min + 1, (sites, sites)) * 60
+    travel = {(f"S{a}", f"S{b}"): (int(t[a, b]), 0)
+              for a in range(sites) for b in range(sites) if a != b}
+    jobs = []
+    for k in range(n):
+        o, d = rng.integers(0, sites, 2)
+        start = int(rng.integers(0, horizon_min)) * 60
+        length = int(t[o, d]) + int(rng.integers(1, 300)) * 60
+        jobs.append(Job(f"J{k}", f"S{o}", f"S{d}", start, start + length,
+                        vehicle_class=str(rng.integers(0, classes)) if classes > 1 else ""))
+    return build_day(jobs, [], travel,
+                     settings=settings or Settings(turnaround=turnaround_min * 60))
+
+
+def regional_day(n: int, sites: int, *, seed: int = 0, turnaround_min: int = 10):
+    """A benchmark-style day: sites on an 80 km square, travel from coordinates."""
+    rng = np.random.default_rng(seed)
+    xy = rng.uniform(0, 80, (sites, 2))
+    site_list = [Site(f"S{k}", x_km=float(x), y_km=float(y)) for k, (x, y) in enumerate(xy)]
+    km = np.hypot(*(xy[:, None, :] - xy[None, :, :]).transpose(2, 0, 1))
+    settings = Settings(turnaround=turnaround_min * 60)
+    secs = np.ceil(np.round(km * settings.circuity / settings.speed_kmh * 3600, 6)).astype(int)
+    o = rng.integers(0, sites, n)
+    d = rng.integers(0, sites, n)
+    start = rng.integers(5 * 60, 20 * 60, n) * 60
+    end = start + secs[o, d] + rng.integers(15, 90, n) * 60
+    jobs = [Job(f"J{k:05d}", f"S{o[k]}", f"S{d[k]}", int(start[k]), int(end[k]))
+            for k in range(n)]
+    return build_day(jobs, site_list, {}, settings=settings)
