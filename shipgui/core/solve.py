@@ -13,6 +13,7 @@ from collections.abc import Callable
 
 import numpy as np
 
+from .deadhead import plan_deadhead
 from .matching import default_kernel, maximum_matching
 from .model import Day, Plan
 from .precedence import class_indexes
@@ -60,7 +61,9 @@ def solve_day(day: Day, *, kernel: str | None = None,
     t = stage("routes", t)
     failures = check_plan(day, routes, certificate)
     stage("verification", t)
+    total, per_route = plan_deadhead(day, routes)
     return Plan(day, tuple(routes), tuple(certificate), not failures, timings, kernel,
+                deadhead_seconds=total, route_deadhead_seconds=per_route,
                 verification_failures=tuple(failures))
 
 
