@@ -19,8 +19,8 @@ import scipy.sparse as sp
 
 from .model import Day
 
-__all__ = ["PrefixIndex", "prefix_index", "class_indexes", "can_follow_matrix",
-           "follow_slack"]
+__all__ = ["PrefixIndex", "prefix_index", "prefix_index_from_matrix", "class_indexes",
+           "can_follow_matrix", "follow_slack"]
 
 _CHUNK_CELLS = 1 << 22  # cells per chunk of the dense comparison (~4 M)
 
@@ -81,6 +81,19 @@ def prefix_index(day: Day, jobs: np.ndarray) -> PrefixIndex:
         p = np.searchsorted(sorted_ready[a:b], threshold, side="right") - 1
         latest[:, g] = np.where(p >= 0, p + a, -1)
     return PrefixIndex(jobs, order.astype(np.int64), group_start, group_site, latest)
+
+
+def prefix_index_from_matrix(follows) -> PrefixIndex:
+    """Prefix form of any relation given as a matrix (``follows[i, j]``: j can follow i).
+
+    Every job gets a group of its own, so this is exact for any relation (O(n^2)
+    memory): for checking the algorithms on orders that do not come from a day.
+    """
+    follows = np.asarray(follows.toarray() if sp.issparse(follows) else follows, dtype=bool)
+    n = follows.shape[0]
+    ar = np.arange(n, dtype=np.int64)
+    latest = np.where(follows.T, ar[None, :], -1).astype(np.int32)
+    return PrefixIndex(ar, ar.copy(), np.arange(n + 1, dtype=np.int64), ar.copy(), latest)
 
 
 def class_indexes(day: Day) -> list[PrefixIndex]:

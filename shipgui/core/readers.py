@@ -93,22 +93,21 @@ def read_jobs(path: str | Path) -> tuple[list[Job], date | None]:
         raise InputError("the jobs file needs a column 'end' or a column 'duration'",
                          file=table.path, row=1, column="end")
     issues = _Collector()
-    raws = [_parse_job_row(table, number, record, issues)
-            for number, record in _cells(table, issues)]
+    raws = []
+    seen: dict[str, int] = {}
+    for number, record in _cells(table, issues):
+        job_id = record.get("job", "")
+        if job_id in seen:
+            issues.add(f"job '{job_id}' is listed twice (first in row {seen[job_id]}); "
+                       "job ids must be unique", table.path, number, "job")
+            continue
+        if job_id:
+            seen[job_id] = number
+        raws.append(_parse_job_row(table, number, record, issues))
     raws = [r for r in raws if r is not None]
     plan_date = _plan_date(table, raws, issues)
-    jobs: list[Job] = []
-    seen: dict[str, int] = {}
-    for raw in raws:
-        job = _finish_job(table, raw, plan_date, issues)
-        if job is None:
-            continue
-        if job.id in seen:
-            issues.add(f"job '{job.id}' is listed twice (first in row {seen[job.id]}); "
-                       "job ids must be unique", table.path, raw.row, "job")
-            continue
-        seen[job.id] = raw.row
-        jobs.append(job)
+    jobs = [job for job in (_finish_job(table, raw, plan_date, issues) for raw in raws)
+            if job is not None]
     if not jobs and not issues.problems:
         issues.add("the jobs file has no jobs (only a header)", table.path, 1)
     issues.raise_if_any()
@@ -343,18 +342,29 @@ def _travel_matrix(site_ids, by_id, travel, used, settings: Settings, sources):
     sub = matrix[np.ix_(used_idx, used_idx)]
     missing = np.argwhere(sub < 0)
     if len(missing):
-        issues = _Collector()
-        for a, b in missing:
-            sa, sb = used[a], used[b]
-            why = [f"site '{s}' has no coordinates" + ("" if s in by_id else
-                   " (it is not in the sites file)") for s in dict.fromkeys((sa, sb))
-                   if not _has_coords(by_id.get(s))]
-            issues.add(f"no travel time from {sa} to {sb}: add the pair to the travel file"
-                       + (f" ({'; '.join(why)})" if why else
-                          " (one site has lat/lon, the other x/y km)"),
-                       sources.get("travel") or sources.get("sites") or sources.get("jobs"))
-        issues.raise_if_any()
+        _report_missing([(used[a], used[b]) for a, b in missing], by_id, sources)
     return matrix, estimated
+
+
+def _report_missing(pairs: list[tuple[str, str]], by_id: dict[str, Site],
+                    sources: dict[str, str]) -> None:
+    """One message for all missing travel times, naming pairs and the sites to fix."""
+    examples = ", ".join(f"{a} -> {b}" for a, b in pairs[:5])
+    lacking = list(dict.fromkeys(s for pair in pairs for s in pair
+                                 if not _has_coords(by_id.get(s))))
+    if lacking:
+        unknown = [s for s in lacking if s not in by_id]
+        fix = (f"sites without coordinates: {', '.join(lacking[:12])}"
+               + (" ..." if len(lacking) > 12 else "")
+               + (" (not in the sites file)" if unknown and len(unknown) == len(lacking) else "")
+               + "; give them lat/lon or x_km/y_km in the sites file, or list the pairs "
+               "in the travel file")
+    else:
+        fix = "these sites mix lat/lon and x/y km coordinates; list the pairs in the travel file"
+    if not sources.get("travel") and not sources.get("sites"):
+        fix = "give a travel file (from, to, minutes) or a sites file with coordinates"
+    raise InputError(f"no travel time for {len(pairs)} pair(s) of sites, e.g. {examples}: {fix}",
+                     file=sources.get("travel") or sources.get("sites") or sources.get("jobs"))
 
 
 def _has_coords(site: Site | None) -> bool:

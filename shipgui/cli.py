@@ -1,0 +1,247 @@
+"""The command line: ``shipgui solve``, ``shipgui demo``, and the desktop app.
+
+Exit status: 0 solved; 2 bad input or bad arguments (one message naming the
+file, row and column; no traceback); 1 anything else, including a plan that
+failed its independent verification.  No output file is written or changed
+unless the whole solve succeeded.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+import time
+from pathlib import Path
+
+from . import __version__
+from .core import InputError, Settings, format_clock, format_minutes, load_day, solve_day
+from .core.clock import parse_clock, parse_minutes
+from .core.demo import DEMO_SETTINGS, demo_files
+from .core.export import plan_to_json
+from .core.files import write_bytes_atomic
+from .core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, Plan
+
+CAUTION = ("Travel times are estimates. Drivers' hours and rest rules are set by local law. "
+           "The dispatcher decides and is responsible.")
+
+
+class UsageError(Exception):
+    """Bad arguments: exit 2 with this message."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str):  # one line, exit 2, no traceback
+        raise UsageError(f"{self.prog}: {message}")
+
+
+def _solve_parser() -> argparse.ArgumentParser:
+    p = _Parser(prog="shipgui solve",
+                description="Minimum vehicles, routes and proof for a day of jobs.")
+    p.add_argument("jobs", help="jobs CSV file")
+    p.add_argument("--sites", help="sites CSV file (names, addresses, coordinates)")
+    p.add_argument("--travel", help="travel CSV file (from, to, minutes)")
+    _add_common(p)
+    return p
+
+
+def _add_common(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--turnaround", metavar="MIN", default="0",
+                   help="minutes between one job's end and the next job's drive (default 0)")
+    p.add_argument("--depot", metavar="SITE", help="site the vehicles start from and return to")
+    p.add_argument("--day-start", metavar="HH:MM", help="earliest departure from the depot")
+    p.add_argument("--day-end", metavar="HH:MM", help="latest return to the depot")
+    p.add_argument("--speed", metavar="KMH", type=float, default=DEFAULT_SPEED_KMH,
+                   help=f"average speed for estimated travel (default {DEFAULT_SPEED_KMH:g})")
+    p.add_argument("--circuity", type=float, default=DEFAULT_CIRCUITY,
+                   help=f"road distance / straight distance (default {DEFAULT_CIRCUITY:g})")
+    p.add_argument("--json", metavar="OUT.json", help="write the plan as JSON")
+    p.add_argument("--pdf", metavar="OUT.pdf", help="write driver sheets and the certificate")
+    p.add_argument("--verbose", action="store_true", help="print timings per stage")
+
+
+def _settings(args: argparse.Namespace) -> Settings:
+    def clock(option: str, text: str | None) -> int | None:
+        if text is None:
+            return None
+        try:
+            value = parse_clock(text)
+        except ValueError as exc:
+            raise UsageError(f"{option}: {exc}") from None
+        if value.seconds is None:
+            raise UsageError(f"{option}: give a clock time HH:MM")
+        return value.seconds
+    try:
+        turnaround = parse_minutes(args.turnaround)
+    except ValueError as exc:
+        raise UsageError(f"--turnaround: {exc}") from None
+    day_start, day_end = clock("--day-start", args.day_start), clock("--day-end", args.day_end)
+    if (day_start is not None or day_end is not None) and not args.depot:
+        raise UsageError("--day-start and --day-end need --depot")
+    if day_start is not None and day_end is not None and day_end <= day_start:
+        raise UsageError("--day-end must be after --day-start (use 25:00 for 01:00 next day)")
+    if not args.speed > 0:
+        raise UsageError("--speed must be more than 0 km/h")
+    if not args.circuity >= 1:
+        raise UsageError("--circuity must be at least 1")
+    return Settings(turnaround=turnaround, depot=args.depot, day_start=day_start,
+                    day_end=day_end, speed_kmh=args.speed, circuity=args.circuity)
+
+
+def _check_outputs(args: argparse.Namespace, inputs: list[str | None]) -> None:
+    """Refuse outputs that would overwrite an input or cannot be written."""
+    sources = {Path(p).resolve() for p in inputs if p}
+    for option in ("json", "pdf"):
+        out = getattr(args, option)
+        if not out:
+            continue
+        path = Path(out).resolve()
+        if path in sources:
+            raise UsageError(f"--{option} {out}: that is an input file; choose another name")
+        if not path.parent.is_dir():
+            raise UsageError(f"--{option} {out}: the folder {path.parent} does not exist")
+        if path.is_dir():
+            raise UsageError(f"--{option} {out}: that is a folder")
+
+
+def _render_outputs(plan: Plan, args: argparse.Namespace) -> dict[str, bytes]:
+    outputs: dict[str, bytes] = {}
+    if args.json:
+        outputs[args.json] = plan_to_json(plan).encode("utf-8")
+    if args.pdf:
+        from .report import build_pdf_bytes
+        outputs[args.pdf] = build_pdf_bytes(plan)
+    return outputs
+
+
+def _summary(plan: Plan, label: str) -> str:
+    day = plan.day
+    lines = [f"Day: {label} - {day.n} jobs, {len(day.site_ids)} sites"
+             + (f", plan date {day.plan_date.isoformat()}" if day.plan_date else "")
+             + f" (fingerprint {day.fingerprint})"]
+    if not plan.verified:
+        lines.append("PLAN FAILED ITS INDEPENDENT CHECK - do not use it:")
+        lines.extend(f"  {f}" for f in plan.verification_failures)
+        return "\n".join(lines)
+    lines.append(f"Vehicles needed: {plan.vehicles} (minimum; independently verified)")
+    lines.append(f"Why not fewer: these {len(plan.certificate)} jobs pairwise cannot share "
+                 "a vehicle, so each needs its own:")
+    ids = plan.certificate_ids()
+    for k in range(0, len(ids), 10):
+        lines.append("  " + " ".join(ids[k:k + 10]))
+    hours, minutes = divmod(round(plan.deadhead_seconds / 60), 60)
+    lines.append(f"Empty driving: {hours} h {minutes:02d} min in all")
+    for w in day.warnings:
+        lines.append(f"Warning: {w}")
+    for number, route in enumerate(plan.routes[:5], start=1):
+        jobs = [day.jobs[k] for k in route]
+        lines.append(f"  vehicle {number}: {format_clock(jobs[0].start)}-"
+                     f"{format_clock(jobs[-1].end)}  " + " ".join(j.id for j in jobs))
+    if plan.vehicles > 5:
+        lines.append(f"  ... and {plan.vehicles - 5} more vehicles (use --json or --pdf)")
+    lines.append(CAUTION)
+    return "\n".join(lines)
+
+
+def _run_solve(args: argparse.Namespace, files: dict[str, str | None], settings: Settings,
+               label: str) -> int:
+    _check_outputs(args, list(files.values()))
+    t0 = time.perf_counter()
+    day = load_day(files["jobs"], files.get("sites"), files.get("travel"), settings=settings)
+    t1 = time.perf_counter()
+    plan = solve_day(day)
+    if not plan.verified:
+        print(_summary(plan, label), file=sys.stderr)
+        return 1
+    t2 = time.perf_counter()
+    outputs = _render_outputs(plan, args)
+    for path, data in outputs.items():
+        write_bytes_atomic(path, data)
+    t3 = time.perf_counter()
+    print(_summary(plan, label))
+    for path in outputs:
+        print(f"Wrote {path}")
+    if args.verbose:
+        stages = {"reading and checking input": t1 - t0, **plan.timings,
+                  "writing output": t3 - t2}
+        print(f"Timings (kernel {plan.kernel}):")
+        for name, seconds in stages.items():
+            print(f"  {name:<28} {seconds * 1000:9.1f} ms")
+    return 0
+
+
+def cmd_solve(argv: list[str]) -> int:
+    args = _solve_parser().parse_args(argv)
+    files = {"jobs": args.jobs, "sites": args.sites, "travel": args.travel}
+    return _run_solve(args, files, _settings(args), args.jobs)
+
+
+def cmd_demo(argv: list[str]) -> int:
+    p = _Parser(prog="shipgui demo", description="Solve the built-in invented demo day.")
+    p.add_argument("--json", metavar="OUT.json")
+    p.add_argument("--pdf", metavar="OUT.pdf")
+    p.add_argument("--verbose", action="store_true")
+    args = p.parse_args(argv)
+    files = {k: str(v) for k, v in demo_files().items()}
+    print("Demo: Brindlemoor Building Supply, an invented builders' merchant; depot YARD, "
+          f"day {format_clock(DEMO_SETTINGS.day_start)}-{format_clock(DEMO_SETTINGS.day_end)}, "
+          f"turnaround {format_minutes(DEMO_SETTINGS.turnaround)} min.")
+    return _run_solve(args, files, DEMO_SETTINGS, "built-in demo day")
+
+
+def _has_display() -> bool:
+    return bool(os.environ.get("DISPLAY") or os.environ.get("WAYLAND_DISPLAY")
+                or os.environ.get("QT_QPA_PLATFORM") or sys.platform in ("win32", "darwin"))
+
+
+def cmd_gui(argv: list[str]) -> int:
+    p = _Parser(prog="shipgui", description="shipgui: minimum fleet with proof. Commands: "
+                "'shipgui solve JOBS.csv ...', 'shipgui demo'; with no command the desktop "
+                "app opens.")
+    p.add_argument("files", nargs="*", help="a plan file or a jobs CSV to open")
+    p.add_argument("--demo", action="store_true", help="open the built-in demo day")
+    p.add_argument("--screenshot", metavar="FILE.png",
+                   help="render the window after solving, save it, and exit")
+    p.add_argument("--version", action="version", version=f"shipgui {__version__}")
+    args = p.parse_args(argv)
+    if not _has_display() and not args.screenshot:
+        print("No display found (DISPLAY/WAYLAND_DISPLAY unset): showing the headless "
+              "summary instead of the window.")
+        if args.demo or not args.files:
+            return cmd_demo([])
+        return cmd_solve(args.files[:1])
+    if args.screenshot and not _has_display():
+        os.environ["QT_QPA_PLATFORM"] = "offscreen"
+    try:
+        from .gui.app import run
+    except ImportError as exc:
+        raise UsageError(f"the desktop app cannot start: {exc}") from None
+    return run(args.files, demo=args.demo, screenshot=args.screenshot)
+
+
+def main(argv: list[str] | None = None) -> int:
+    argv = list(sys.argv[1:] if argv is None else argv)
+    commands = {"solve": cmd_solve, "demo": cmd_demo}
+    try:
+        if argv and argv[0] in commands:
+            return commands[argv[0]](argv[1:])
+        return cmd_gui(argv)
+    except UsageError as exc:
+        print(str(exc), file=sys.stderr)
+        return 2
+    except InputError as exc:
+        print(f"shipgui: input error: {exc}", file=sys.stderr)
+        return 2
+    except KeyboardInterrupt:
+        print("shipgui: interrupted", file=sys.stderr)
+        return 1
+    except Exception as exc:  # noqa: BLE001 - the contract: no traceback, exit 1
+        if os.environ.get("SHIPGUI_DEBUG"):
+            raise
+        print(f"shipgui: internal error ({type(exc).__name__}: {exc}); nothing was written. "
+              "Set SHIPGUI_DEBUG=1 for details.", file=sys.stderr)
+        return 1
+
+
+if __name__ == "__main__":
+    sys.exit(main())

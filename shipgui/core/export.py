@@ -1,0 +1,54 @@
+"""The plan as the contract's JSON document (plus a few extra keys)."""
+
+from __future__ import annotations
+
+import json
+
+from .clock import format_clock
+from .model import Plan
+
+__all__ = ["plan_to_dict", "plan_to_json"]
+
+
+def _minutes(seconds: int) -> float:
+    value = seconds / 60
+    return int(value) if value.is_integer() else round(value, 2)
+
+
+def plan_to_dict(plan: Plan) -> dict:
+    """Fixed keys: vehicles, routes (vehicle, jobs), certificate.jobs, verified."""
+    day = plan.day
+    routes = []
+    for number, (route, ids) in enumerate(zip(plan.routes, plan.route_ids()), start=1):
+        entry = {"vehicle": number, "jobs": ids,
+                 "first_start": format_clock(day.jobs[route[0]].start),
+                 "last_end": format_clock(day.jobs[route[-1]].end)}
+        if plan.route_deadhead_seconds:
+            entry["deadhead_minutes"] = _minutes(plan.route_deadhead_seconds[number - 1])
+        routes.append(entry)
+    return {
+        "vehicles": plan.vehicles,
+        "routes": routes,
+        "certificate": {"jobs": plan.certificate_ids()},
+        "verified": bool(plan.verified),
+        "deadhead_minutes": _minutes(plan.deadhead_seconds),
+        "jobs": day.n,
+        "plan_date": day.plan_date.isoformat() if day.plan_date else None,
+        "fingerprint": day.fingerprint,
+        "warnings": list(day.warnings),
+        "travel_pairs_shortened": day.shortened_pairs,
+        "settings": {
+            "turnaround_minutes": _minutes(day.settings.turnaround),
+            "depot": day.settings.depot,
+            "day_start": None if day.settings.day_start is None
+            else format_clock(day.settings.day_start),
+            "day_end": None if day.settings.day_end is None
+            else format_clock(day.settings.day_end),
+            "speed_kmh": day.settings.speed_kmh,
+            "circuity": day.settings.circuity,
+        },
+    }
+
+
+def plan_to_json(plan: Plan) -> str:
+    return json.dumps(plan_to_dict(plan), indent=2, ensure_ascii=False) + "\n"

@@ -1,0 +1,150 @@
+"""The engine against outside references: networkx, brute force, textbook instances."""
+
+import itertools
+
+import networkx as nx
+import numpy as np
+import pytest
+
+from shipgui.core import Job, Settings, build_day, can_follow_matrix, check_plan, solve_day
+from shipgui.core.matching import available_kernels, maximum_matching
+from shipgui.core.precedence import prefix_index_from_matrix
+from tests.support.days import random_day
+
+KERNELS = available_kernels()
+
+
+def _nx_width(day) -> int:
+    """Minimum chain cover size by networkx's Hopcroft-Karp on the split graph
+    (Fulkerson 1956: width = n - maximum matching)."""
+    m = can_follow_matrix(day)
+    g = nx.Graph()
+    g.add_nodes_from(range(2 * day.n))
+    r, c = m.nonzero()
+    g.add_edges_from(zip(r.tolist(), (c + day.n).tolist()))
+    matching = nx.bipartite.hopcroft_karp_matching(g, top_nodes=range(day.n))
+    return day.n - len(matching) // 2
+
+
+@pytest.mark.parametrize("seed", range(210))
+def test_width_matches_networkx_on_random_days(seed):
+    rng = np.random.default_rng(seed)
+    day = random_day(int(rng.integers(1, 70)), int(rng.integers(1, 7)), seed=seed,
+                     classes=int(rng.integers(1, 3)), turnaround_min=int(rng.integers(0, 15)))
+    expected = _nx_width(day)
+    for kernel in KERNELS:
+        plan = solve_day(day, kernel=kernel)
+        assert plan.verified, (kernel, plan.verification_failures)
+        assert plan.vehicles == expected == len(plan.certificate)
+
+
+@pytest.mark.parametrize("seed", range(40))
+def test_certificate_is_a_maximum_antichain_by_brute_force(seed):
+    # Brute force over every antichain listed by networkx.antichains.
+    rng = np.random.default_rng(1000 + seed)
+    day = random_day(int(rng.integers(1, 13)), int(rng.integers(1, 4)), seed=seed)
+    m = can_follow_matrix(day)
+    dag = nx.DiGraph()
+    dag.add_nodes_from(range(day.n))
+    dag.add_edges_from(zip(*m.nonzero()))
+    largest = max(len(a) for a in nx.antichains(dag))
+    plan = solve_day(day)
+    assert plan.vehicles == largest
+    cert = list(plan.certificate)
+    assert not any(m[a, b] or m[b, a] for a, b in itertools.combinations(cert, 2))
+
+
+def _day(slots, *, turnaround=0, travel=None, sites=("A",), strict=False):
+    jobs = [Job(f"J{k}", o, d, s, e) for k, (o, d, s, e) in enumerate(slots)]
+    pairs = {(a, b): (v, 0) for (a, b), v in (travel or {}).items()}
+    for a, b in itertools.permutations(sites, 2):
+        pairs.setdefault((a, b), (0, 0))
+    return build_day(jobs, [], pairs, settings=Settings(turnaround=turnaround))
+
+
+def test_interval_partitioning_worked_instance():
+    # Zero travel: fleet = maximum number of overlapping slots (interval
+    # partitioning; Kleinberg & Tardos, Algorithm Design, 2005, section 4.1).
+    hours = [(13, 15), (17, 22), (12, 17), (9, 10), (12, 15), (9, 11), (11, 14), (10, 15),
+             (16, 19), (12, 14), (18, 23), (8, 11)]
+    day = _day([("A", "A", a * 3600, b * 3600) for a, b in hours])
+    plan = solve_day(day)
+    assert plan.verified and plan.vehicles == 6
+
+
+@pytest.mark.parametrize("seed", range(30))
+def test_zero_travel_equals_max_overlap(seed):
+    rng = np.random.default_rng(seed)
+    n = int(rng.integers(1, 40))
+    starts = rng.integers(0, 100, n)
+    ends = starts + rng.integers(1, 30, n)
+    day = _day([("A", "A", int(s) * 60, int(e) * 60) for s, e in zip(starts, ends)])
+    events = sorted([(int(e), -1) for e in ends] + [(int(s), 1) for s in starts])
+    depth = max(itertools.accumulate(d for _, d in events))  # ends before starts at ties
+    assert solve_day(day).vehicles == depth
+
+
+def _tanker(strict: bool):
+    # Tanker scheduling, Ahuja, Magnanti & Orlin, Network Flows (1993),
+    # Application 6.6, as transcribed in course material: shipments
+    # 1 A->C day 3, 2 A->C day 8, 3 B->D day 3, 4 B->C day 6; loaded times
+    # A->C 3, A->D 2, B->C 2, B->D 3; empty C->A 2, C->B 1, D->A 1, D->B 2.
+    # The fleet sizes below were computed from these data, not quoted.
+    day_s = 24 * 3600
+    loaded = {("A", "C"): 3, ("A", "D"): 2, ("B", "C"): 2, ("B", "D"): 3}
+    empty = {("C", "A"): 2, ("C", "B"): 1, ("D", "A"): 1, ("D", "B"): 2}
+    travel = {k: v * day_s for k, v in {**loaded, **empty}.items()}
+    for a, b in itertools.permutations("ABCD", 2):
+        travel.setdefault((a, b), 30 * day_s)  # no direct road given: effectively none
+    shipments = [("A", "C", 3), ("A", "C", 8), ("B", "D", 3), ("B", "C", 6)]
+    # The day of a shipment is its delivery date, so it leaves loaded[o, d] days before.
+    # A strict rule ("arrive before the next departure") is a 1-second turnaround.
+    slots = [(o, d, (t - loaded[(o, d)]) * day_s, t * day_s) for o, d, t in shipments]
+    return _day(slots, travel=travel, sites="ABCD", turnaround=1 if strict else 0)
+
+
+def test_tanker_example_no_earlier_than():
+    assert solve_day(_tanker(strict=False)).vehicles == 2
+
+
+def test_tanker_example_strict_rule_needs_three():
+    assert solve_day(_tanker(strict=True)).vehicles == 3
+
+
+@pytest.mark.parametrize("kernel", KERNELS)
+def test_sperner_subsets_of_four(kernel):
+    # Subsets of {1,2,3,4} under inclusion: width C(4,2) = 6 (Sperner, "Ein Satz
+    # über Untermengen einer endlichen Menge", Math. Zeitschrift 27, 1928).
+    subsets = [frozenset(c) for r in range(5) for c in itertools.combinations(range(4), r)]
+    follows = np.array([[a < b for b in subsets] for a in subsets])
+    matching = maximum_matching(prefix_index_from_matrix(follows), kernel=kernel)
+    assert len(subsets) - matching.size == 6
+    cert = [subsets[k] for k in matching.antichain]
+    assert len(cert) == 6 and all(len(s) == 2 for s in cert)
+
+
+def test_verification_rejects_tampered_plans():
+    day = random_day(30, 3, seed=5)
+    plan = solve_day(day)
+    assert check_plan(day, plan.routes, plan.certificate) == []
+    assert check_plan(day, plan.routes[1:], plan.certificate)          # a job lost
+    assert check_plan(day, plan.routes, plan.certificate[1:])          # certificate short
+    merged = [tuple(sorted(plan.routes[0] + plan.routes[1], key=lambda k: day.start[k]))]
+    assert check_plan(day, merged + list(plan.routes[2:]), plan.certificate)
+    if len(plan.routes[0]) > 1:  # a certificate with two jobs of one chain
+        bad = (plan.routes[0][0], plan.routes[0][1]) + plan.certificate[2:]
+        assert check_plan(day, plan.routes, bad)
+
+
+def test_vehicle_classes_never_mix():
+    slots = [("A", "A", 0, 3600), ("A", "A", 7200, 9000)]
+    jobs = [Job("J0", "A", "A", 0, 3600, "van"), Job("J1", "A", "A", 7200, 9000, "truck")]
+    day = build_day(jobs, [], {})
+    assert solve_day(day).vehicles == 2
+    assert solve_day(_day(slots)).vehicles == 1
+
+
+def test_deterministic_routes():
+    day = random_day(200, 8, seed=11)
+    a, b = solve_day(day), solve_day(day)
+    assert a.routes == b.routes and a.certificate == b.certificate
