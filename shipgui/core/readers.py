@@ -27,6 +27,7 @@ __all__ = ["read_jobs", "read_sites", "read_travel", "build_day", "load_day",
            "MAX_PROBLEMS"]
 
 MAX_PROBLEMS = 50
+DEFAULT_SETTINGS = Settings()
 
 
 @dataclass
@@ -269,7 +270,7 @@ def read_travel(path: str | Path) -> dict[tuple[str, str], tuple[int, int]]:
 
 def load_day(jobs_path: str | Path, sites_path: str | Path | None = None,
              travel_path: str | Path | None = None, *,
-             settings: Settings = Settings()) -> Day:
+             settings: Settings = DEFAULT_SETTINGS) -> Day:
     """Read the files and build a validated day (see :func:`build_day`)."""
     jobs, plan_date = read_jobs(jobs_path)
     sites = read_sites(sites_path) if sites_path else []
@@ -285,7 +286,7 @@ def load_day(jobs_path: str | Path, sites_path: str | Path | None = None,
 
 def build_day(jobs: list[Job], sites: list[Site],
               travel: dict[tuple[str, str], tuple[int, int]], *,
-              settings: Settings = Settings(), plan_date: date | None = None,
+              settings: Settings = DEFAULT_SETTINGS, plan_date: date | None = None,
               sources: dict[str, str] | None = None) -> Day:
     """Check jobs against the travel times and the depot day; close the travel matrix.
 

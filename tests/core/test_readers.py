@@ -83,7 +83,8 @@ def test_binary_file_refused(tmp_path):
 
 def test_not_utf8_names_the_row(tmp_path):
     with pytest.raises(InputError) as e:
-        load(tmp_path, (JOBS_HEADER + "J1,A,B,07:00,09:00\nJ\xe9,A,B,07:00,09:00\n").encode("latin-1"))
+        text = JOBS_HEADER + "J1,A,B,07:00,09:00\nJ\xe9,A,B,07:00,09:00\n"
+        load(tmp_path, text.encode("latin-1"))
     assert problem(e).row == 3 and "UTF-8" in problem(e).message
 
 

@@ -1,0 +1,125 @@
+"""`shipgui solve` as the contract fixes it: exit codes, messages, files."""
+
+import json
+import os
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from shipgui.cli import main
+from shipgui.core.demo import demo_files
+
+ROOT = Path(__file__).resolve().parents[2]
+
+
+def run(args, cwd=None):
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    return subprocess.run([sys.executable, "-m", "shipgui", *args], capture_output=True,
+                          text=True, cwd=cwd, env=env, timeout=300)
+
+
+def demo_args(*extra):
+    f = demo_files()
+    return ["solve", str(f["jobs"]), "--sites", str(f["sites"]), "--travel", str(f["travel"]),
+            "--turnaround", "10", "--depot", "YARD", "--day-start", "05:00",
+            "--day-end", "27:00", *extra]
+
+
+def test_solve_writes_contract_json(tmp_path, capsys):
+    out = tmp_path / "plan.json"
+    assert main(demo_args("--json", str(out))) == 0
+    plan = json.loads(out.read_text())
+    assert plan["verified"] is True
+    assert plan["vehicles"] == len(plan["routes"]) == len(plan["certificate"]["jobs"])
+    ids = [j for r in plan["routes"] for j in r["jobs"]]
+    assert len(ids) == len(set(ids)) == 150
+    assert [r["vehicle"] for r in plan["routes"]] == list(range(1, plan["vehicles"] + 1))
+    text = capsys.readouterr().out
+    assert f"Vehicles needed: {plan['vehicles']}" in text and "local law" in text
+
+
+def test_json_routes_match_an_independent_recheck(tmp_path):
+    # Re-derive "can follow" from the files by hand for every consecutive pair.
+    from shipgui.core import Settings, load_day
+    out = tmp_path / "plan.json"
+    assert main(demo_args("--json", str(out))) == 0
+    f = demo_files()
+    day = load_day(f["jobs"], f["sites"], f["travel"], settings=Settings(turnaround=600))
+    plan = json.loads(out.read_text())
+    jobs = {j.id: j for j in day.jobs}
+    for route in plan["routes"]:
+        for a, b in zip(route["jobs"], route["jobs"][1:]):
+            ja, jb = jobs[a], jobs[b]
+            assert ja.end + 600 + day.travel_between(ja.destination, jb.origin) <= jb.start
+
+
+def test_bad_input_exit_2_no_traceback_no_file(tmp_path):
+    jobs = tmp_path / "jobs.csv"
+    jobs.write_text("job,origin,start,end\nJ1,A,07:00,6:00\n")
+    out = tmp_path / "plan.json"
+    out.write_text("old plan")
+    r = run(["solve", str(jobs), "--json", str(out)])
+    assert r.returncode == 2
+    assert "jobs.csv" in r.stderr and "row 2" in r.stderr and "'end'" in r.stderr
+    assert "Traceback" not in r.stderr
+    assert out.read_text() == "old plan"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["jobs.csv", "plan.json"]
+
+
+@pytest.mark.parametrize("args, words", [
+    (["solve"], "required"),
+    (["solve", "x.csv", "--turnaround", "abc"], "--turnaround"),
+    (["solve", "x.csv", "--day-start", "06:00"], "--depot"),
+    (["solve", "x.csv", "--unknown"], "unrecognized"),
+    (["solve", "missing.csv"], "does not exist"),
+])
+def test_bad_arguments_exit_2(args, words, capsys):
+    assert main(args) == 2
+    err = capsys.readouterr().err
+    assert words in err and "Traceback" not in err
+
+
+def test_refuses_to_overwrite_an_input(tmp_path, capsys):
+    jobs = tmp_path / "jobs.csv"
+    jobs.write_text("job,origin,start,end\nJ1,A,07:00,08:00\n")
+    assert main(["solve", str(jobs), "--json", str(jobs)]) == 2
+    assert jobs.read_text().startswith("job,")
+
+
+def test_unreachable_job_from_depot_is_input_error(tmp_path, capsys):
+    f = demo_files()
+    args = ["solve", str(f["jobs"]), "--sites", str(f["sites"]), "--depot", "YARD",
+            "--day-start", "06:10", "--day-end", "27:00"]
+    assert main(args) == 2
+    assert "cannot be reached from depot YARD" in capsys.readouterr().err
+
+
+def test_demo_command_and_verbose_timings(tmp_path, capsys):
+    out = tmp_path / "demo.json"
+    assert main(["demo", "--json", str(out), "--verbose"]) == 0
+    text = capsys.readouterr().out
+    assert "matching" in text and "verification" in text and "invented" in text
+    assert json.loads(out.read_text())["verified"] is True
+
+
+def test_module_entry_point_runs_as_a_process(tmp_path):
+    r = run(["demo", "--json", str(tmp_path / "d.json")])
+    assert r.returncode == 0, r.stderr
+    assert "Vehicles needed" in r.stdout
+
+
+def test_unverified_plan_fails_loudly(tmp_path, monkeypatch, capsys):
+    import shipgui.cli as cli
+    real = cli.solve_day
+
+    def broken(day, **kw):
+        plan = real(day, **kw)
+        from dataclasses import replace
+        return replace(plan, verified=False, verification_failures=("forced for the test",))
+    monkeypatch.setattr(cli, "solve_day", broken)
+    out = tmp_path / "plan.json"
+    assert main(demo_args("--json", str(out))) == 1
+    assert not out.exists()
+    assert "FAILED" in capsys.readouterr().err
