@@ -28,6 +28,4 @@ def test_cli_solve_path_does_not_load_qt():
 
 
 def test_report_does_not_import_qt():
-    if not (ROOT / "shipgui" / "report" / "__init__.py").exists():
-        return
     assert "PySide6" not in _loaded_after("import shipgui.report")

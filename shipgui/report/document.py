@@ -1,0 +1,125 @@
+"""Putting the sections together and writing the PDF safely."""
+
+from __future__ import annotations
+
+import io
+import os
+import tempfile
+from collections.abc import Mapping
+from pathlib import Path
+
+from reportlab.platypus import Flowable, NextPageTemplate, PageBreak
+
+from shipgui.core import PlanNotVerified
+from shipgui.core.model import Plan
+
+from .certificate import build_certificate
+from .pages import PlanDocument
+from .route_sheet import build_route_sheet
+from .styles import register_fonts
+from .summary import build_summary
+from .text import plan_date_text
+
+__all__ = ["build_pdf_bytes", "write_plan_pdf"]
+
+
+def _require_verified(plan: Plan) -> None:
+    if not plan.verified:
+        reasons = "; ".join(plan.verification_failures[:3])
+        raise PlanNotVerified("The plan did not pass its independent check, so it is not "
+                              "printed." + (f" ({reasons})" if reasons else ""))
+
+
+def _checked_names(driver_names: Mapping[int, str] | None) -> dict[int, str]:
+    """Driver names by vehicle number; numbers not in the plan are simply not printed."""
+    names = dict(driver_names or {})
+    for number, name in names.items():
+        if not isinstance(number, int) or not isinstance(name, str):
+            raise TypeError(f"driver_names maps vehicle numbers to names; got {number!r}: "
+                            f"{name!r}")
+    return names
+
+
+def _new_section(template: str) -> list[Flowable]:
+    return [NextPageTemplate(template), PageBreak()]
+
+
+def _story(plan: Plan, driver_names: Mapping[int, str]) -> list[Flowable]:
+    story = [NextPageTemplate("summary"), *build_summary(plan)]
+    for number in range(1, plan.vehicles + 1):
+        story += _new_section("route")
+        story += build_route_sheet(plan, number, driver_name=driver_names.get(number))
+    story += _new_section("certificate")
+    story += build_certificate(plan)
+    return story
+
+
+def build_pdf_bytes(plan: Plan, *, driver_names: Mapping[int, str] | None = None) -> bytes:
+    """The whole printed plan as PDF bytes: summary, one route sheet per vehicle, proof.
+
+    The same plan and names always give the same bytes (reportlab's invariant mode).
+    Raises :class:`~shipgui.core.PlanNotVerified` if the plan failed its check, and
+    ``TypeError`` if ``driver_names`` does not map vehicle numbers to text.
+    Pages: the summary (more when the timeline needs them), then each vehicle's
+    route sheet (more for long routes), then the proof.
+    """
+    _require_verified(plan)
+    names = _checked_names(driver_names)
+    register_fonts()
+    buffer = io.BytesIO()
+    date = plan_date_text(plan.day)
+    document = PlanDocument(buffer, plan_date=date, fingerprint=plan.day.fingerprint,
+                            title=f"Vehicle plan {date}")
+    document.build_story(_story(plan, names))
+    return buffer.getvalue()
+
+
+def _file_mode(target: Path) -> int:
+    """Keep an existing file's permissions; a new file gets the usual ones (umask)."""
+    try:
+        return target.stat().st_mode & 0o777
+    except OSError:
+        mask = os.umask(0o022)
+        os.umask(mask)
+        return 0o666 & ~mask
+
+
+def write_plan_pdf(plan: Plan, path: str | os.PathLike, *,
+                   driver_names: Mapping[int, str] | None = None) -> None:
+    """Write the printed plan to ``path``.
+
+    Parameters
+    ----------
+    plan : a verified plan from :func:`shipgui.core.solve_day`.
+    path : the PDF file to create or replace.
+    driver_names : vehicle number (1-based, as printed) -> driver name; vehicles
+        without a name get a blank line to write on.
+
+    Raises
+    ------
+    PlanNotVerified
+        If the plan failed its independent check; nothing is written.
+    OSError
+        If the file cannot be written; an existing file stays as it was.
+
+    Notes
+    -----
+    The PDF is built in memory and written to a temporary file in the same folder,
+    which then replaces ``path`` in one step: a failure never leaves a half-written
+    file.  Time and size are linear in the number of jobs (a 2 000-job day: about
+    8 s and 1 MB).
+    """
+    data = build_pdf_bytes(plan, driver_names=driver_names)
+    target = Path(path)
+    handle, temp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".part",
+                                         dir=target.parent)
+    try:
+        with os.fdopen(handle, "wb") as temp:
+            temp.write(data)
+            temp.flush()
+            os.fsync(temp.fileno())
+        os.chmod(temp_name, _file_mode(target))  # mkstemp makes it private (0600)
+        os.replace(temp_name, target)
+    except BaseException:
+        Path(temp_name).unlink(missing_ok=True)
+        raise
