@@ -123,3 +123,13 @@ def test_unverified_plan_fails_loudly(tmp_path, monkeypatch, capsys):
     assert main(demo_args("--json", str(out))) == 1
     assert not out.exists()
     assert "FAILED" in capsys.readouterr().err
+
+
+def test_pdf_and_json_written_together(tmp_path, capsys):
+    from pypdf import PdfReader
+    pdf, js = tmp_path / "plan.pdf", tmp_path / "plan.json"
+    assert main(demo_args("--pdf", str(pdf), "--json", str(js))) == 0
+    vehicles = json.loads(js.read_text())["vehicles"]
+    text = "".join(page.extract_text() for page in PdfReader(pdf).pages)
+    assert f"Vehicle {vehicles}" in text and "local law" in text
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["plan.json", "plan.pdf"]
