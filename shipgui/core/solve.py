@@ -14,6 +14,7 @@ from collections.abc import Callable
 import numpy as np
 
 from .deadhead import plan_deadhead
+from .least_deadhead import class_costs, least_cost_links
 from .matching import default_kernel, maximum_matching
 from .model import Day, Plan
 from .precedence import class_indexes
@@ -26,11 +27,14 @@ class Cancelled(Exception):
     """The caller asked the solve to stop."""
 
 
-def solve_day(day: Day, *, kernel: str | None = None,
+def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = False,
               progress: Callable[[str], None] | None = None,
               cancelled: Callable[[], bool] | None = None) -> Plan:
     """Minimum fleet, routes and certificate for ``day``, independently verified.
 
+    With ``least_deadhead`` the routes are, among all minimum-fleet plans, one
+    with the least empty driving (:mod:`shipgui.core.least_deadhead`; exact, but
+    not yet fast enough on very large days to be the default).
     ``progress`` is called with a stage name between steps; when
     ``cancelled()`` turns true the solve stops with :class:`Cancelled`.
     Running time O(phases * n * sites); memory O(n * sites).
@@ -54,7 +58,16 @@ def solve_day(day: Day, *, kernel: str | None = None,
     for index in indexes:
         matching = maximum_matching(index, kernel=kernel, day=day)
         t = stage("matching", t)
-        routes.extend(_chains(index.jobs, matching.succ, matching.pred))
+        succ, pred = matching.succ, matching.pred
+        if least_deadhead and index.m:
+            best = least_cost_links(class_costs(day, index), initial=succ)
+            if best.links != matching.size:
+                raise RuntimeError("least-deadhead plan lost the minimum fleet")
+            succ = best.succ
+            pred = np.full(index.m, -1, dtype=np.int64)
+            pred[succ[succ >= 0]] = np.flatnonzero(succ >= 0)
+            t = stage("least deadhead", t)
+        routes.extend(_chains(index.jobs, succ, pred))
         certificate.extend(int(k) for k in index.jobs[matching.antichain])
     routes.sort(key=lambda r: (int(day.start[r[0]]), r[0]))
     certificate.sort(key=lambda k: (int(day.start[k]), k))
