@@ -1,0 +1,196 @@
+"""The day's inputs: which files make it up and the planning settings."""
+
+from __future__ import annotations
+
+import dataclasses
+from pathlib import Path
+
+from PySide6.QtCore import Qt, Signal
+from PySide6.QtWidgets import (
+    QComboBox,
+    QDoubleSpinBox,
+    QFormLayout,
+    QHBoxLayout,
+    QLabel,
+    QLineEdit,
+    QPushButton,
+    QSpinBox,
+    QVBoxLayout,
+    QWidget,
+)
+
+from shipgui.core import Settings, format_clock, parse_clock
+
+from .document import PlanDocument
+
+__all__ = ["InputsPanel"]
+
+NO_DEPOT = "(no depot)"
+
+
+class _FileRow(QWidget):
+    def __init__(self, kind: str, panel: InputsPanel) -> None:
+        super().__init__()
+        self.name = QLabel("none")
+        self.name.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        self.attach = QPushButton("Attach…")
+        self.attach.setToolTip(f"Use a {kind} file (CSV) with this day")
+        self.remove = QPushButton("Remove")
+        self.attach.clicked.connect(lambda: panel.attach_requested.emit(kind))
+        self.remove.clicked.connect(lambda: panel.remove_requested.emit(kind))
+        layout = QHBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(self.name, 1)
+        layout.addWidget(self.attach)
+        layout.addWidget(self.remove)
+
+    def show_source(self, source: str | None, count: int) -> None:
+        if source:
+            self.name.setText(f"{Path(source).name} ({count})")
+            self.name.setToolTip(source)
+        elif count:
+            self.name.setText(f"{count} kept in the plan file")
+            self.name.setToolTip("")
+        else:
+            self.name.setText("none")
+            self.name.setToolTip("")
+        self.remove.setEnabled(bool(source or count))
+
+
+class InputsPanel(QWidget):
+    """Emits ``settings_edited(settings, undo_text)`` for each checked change."""
+
+    settings_edited = Signal(object, str)
+    settings_refused = Signal(str)
+    attach_requested = Signal(str)
+    remove_requested = Signal(str)
+
+    def __init__(self, parent=None) -> None:
+        super().__init__(parent)
+        self._settings = Settings()
+        self._loading = False
+        self.jobs_file = QLabel("none")
+        self.sites_row = _FileRow("sites", self)
+        self.travel_row = _FileRow("travel", self)
+        self.turnaround = QSpinBox()
+        self.turnaround.setRange(0, 600)
+        self.turnaround.setSuffix(" min")
+        self.turnaround.setKeyboardTracking(False)
+        self.turnaround.setToolTip("Time between two jobs on one vehicle: unloading, "
+                                   "paperwork, a short break")
+        self.depot = QComboBox()
+        self.day_start = QLineEdit()
+        self.day_end = QLineEdit()
+        for edit in (self.day_start, self.day_end):
+            edit.setPlaceholderText("HH:MM, or empty")
+            edit.setMaximumWidth(110)
+        self.speed = QDoubleSpinBox()
+        self.speed.setRange(5, 150)
+        self.speed.setDecimals(0)
+        self.speed.setSuffix(" km/h")
+        self.speed.setKeyboardTracking(False)
+        self.circuity = QDoubleSpinBox()
+        self.circuity.setRange(1.0, 3.0)
+        self.circuity.setSingleStep(0.05)
+        self.circuity.setDecimals(2)
+        self.circuity.setKeyboardTracking(False)
+        estimate_tip = ("Used only for pairs of sites missing from the travel file: "
+                        "straight-line distance × road factor ÷ average speed")
+        self.speed.setToolTip(estimate_tip)
+        self.circuity.setToolTip(estimate_tip)
+        self.notes = QLabel("")
+        self.notes.setWordWrap(True)
+        self.notes.setStyleSheet("color: #6a5420;")
+        form = QFormLayout()
+        form.setFieldGrowthPolicy(QFormLayout.FieldGrowthPolicy.AllNonFixedFieldsGrow)
+        form.addRow("Jobs", self.jobs_file)
+        form.addRow("Sites", self.sites_row)
+        form.addRow("Travel times", self.travel_row)
+        form.addRow("Turnaround", self.turnaround)
+        form.addRow("Depot", self.depot)
+        form.addRow("Day starts", self.day_start)
+        form.addRow("Day ends", self.day_end)
+        form.addRow("Average speed", self.speed)
+        form.addRow("Road factor", self.circuity)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(8, 8, 8, 8)
+        layout.addLayout(form)
+        layout.addWidget(self.notes)
+        layout.addStretch(1)
+        self.turnaround.valueChanged.connect(self._turnaround_changed)
+        self.depot.activated.connect(self._depot_changed)
+        self.day_start.editingFinished.connect(lambda: self._clock_changed("day_start"))
+        self.day_end.editingFinished.connect(lambda: self._clock_changed("day_end"))
+        self.speed.valueChanged.connect(self._speed_changed)
+        self.circuity.valueChanged.connect(self._circuity_changed)
+
+    # ------------------------------------------------------------ showing
+    def show_document(self, document: PlanDocument) -> None:
+        """Fill the fields from the document without emitting edits."""
+        self._loading = True
+        try:
+            s = self._settings = document.settings
+            self.jobs_file.setText(Path(document.sources["jobs"]).name
+                                   if "jobs" in document.sources
+                                   else f"{len(document.jobs)} kept in the plan file")
+            self.sites_row.show_source(document.sources.get("sites"), len(document.sites))
+            self.travel_row.show_source(document.sources.get("travel"), len(document.travel))
+            self.turnaround.setValue(s.turnaround // 60)
+            sites = sorted({x.id for x in document.sites}
+                           | {j.origin for j in document.jobs}
+                           | ({s.depot} if s.depot else set()))
+            self.depot.clear()
+            self.depot.addItems([NO_DEPOT, *sites])
+            self.depot.setCurrentText(s.depot or NO_DEPOT)
+            self.day_start.setText(format_clock(s.day_start) if s.day_start is not None else "")
+            self.day_end.setText(format_clock(s.day_end) if s.day_end is not None else "")
+            self.speed.setValue(s.speed_kmh)
+            self.circuity.setValue(s.circuity)
+        finally:
+            self._loading = False
+
+    def show_notes(self, warnings: tuple[str, ...]) -> None:
+        self.notes.setText("\n".join(f"Note: {w}." for w in warnings))
+
+    # ------------------------------------------------------------ editing
+    def _emit(self, text: str, **changes) -> None:
+        if self._loading:
+            return
+        new = dataclasses.replace(self._settings, **changes)
+        if new != self._settings:
+            self._settings = new
+            self.settings_edited.emit(new, text)
+
+    def _turnaround_changed(self, minutes: int) -> None:
+        self._emit(f"Set turnaround to {minutes} min", turnaround=minutes * 60)
+
+    def _depot_changed(self, _index: int) -> None:
+        text = self.depot.currentText()
+        depot = None if text == NO_DEPOT else text
+        self._emit(f"Set depot to {depot}" if depot else "Plan without a depot", depot=depot)
+
+    def _speed_changed(self, value: float) -> None:
+        self._emit(f"Set average speed to {value:g} km/h", speed_kmh=float(value))
+
+    def _circuity_changed(self, value: float) -> None:
+        self._emit(f"Set road factor to {value:g}", circuity=float(value))
+
+    def _clock_changed(self, name: str) -> None:
+        if self._loading:
+            return
+        edit = self.day_start if name == "day_start" else self.day_end
+        label = "day start" if name == "day_start" else "day end"
+        text = edit.text().strip()
+        old = getattr(self._settings, name)
+        if not text:
+            self._emit(f"Clear {label}", **{name: None})
+            return
+        try:
+            value = parse_clock(text).seconds
+            if value is None:
+                raise ValueError(f"'{text}': type a clock time HH:MM")
+        except ValueError as exc:
+            edit.setText(format_clock(old) if old is not None else "")
+            self.settings_refused.emit(f"The {label} was not changed: {exc}")
+            return
+        self._emit(f"Set {label} to {format_clock(value)}", **{name: value})

@@ -1,0 +1,373 @@
+"""The main window: composes the panels, owns the document, the undo stack and the solver."""
+
+from __future__ import annotations
+
+from PySide6.QtCore import Qt, Signal
+from PySide6.QtGui import QAction, QCloseEvent, QKeySequence, QUndoStack
+from PySide6.QtWidgets import (
+    QLabel,
+    QMainWindow,
+    QMessageBox,
+    QSplitter,
+    QStyle,
+    QTabWidget,
+    QToolBar,
+    QVBoxLayout,
+    QWidget,
+)
+
+from shipgui.core import Job, Plan, Problem
+
+from .answer_bar import AnswerBar
+from .certificate_panel import CertificatePanel
+from .commands import AddJob, ChangeSettings, DeleteJobs
+from .document import Change, PlanDocument
+from .file_actions import FileActions
+from .inputs_panel import InputsPanel
+from .jobs_model import Column, JobsModel
+from .jobs_panel import JobsPanel
+from .problems import ProblemList
+from .settings import AppSettings
+from .timeline import TimelineView
+from .worker import SolveController, snapshot
+
+__all__ = ["MainWindow", "CAUTION"]
+
+CAUTION = ("Travel times are estimates. Drivers' hours and rest rules are set by local law. "
+           "The dispatcher decides and is responsible.")
+
+
+class MainWindow(QMainWindow):
+    """One open day.  ``plan`` is the plan shown, ``plan_is_current`` whether it
+    matches the inputs as they are now."""
+
+    plan_shown = Signal(object)  # Plan or None, after the screens were updated
+
+    def __init__(self, settings: AppSettings | None = None, *, solve_delay_ms: int = 80) -> None:
+        super().__init__()
+        self.settings = settings or AppSettings()
+        self.document = PlanDocument()
+        self.undo_stack = QUndoStack(self)
+        self.plan: Plan | None = None
+        self.plan_is_current = False
+        self.problems: list[Problem] = []
+        self.solver = SolveController(self, delay_ms=solve_delay_ms)
+        self._make_actions()
+        self.jobs_model = JobsModel(self.document, self.undo_stack, self)
+        self.files = FileActions(self)
+        self._make_panels()
+        self._make_menus()
+        self._connect()
+        self.setAcceptDrops(True)
+        self.resize(1280, 760)
+        self.update_title()
+        self._show_empty("Open a jobs file or a plan to begin (File ▸ Open, or drop a file "
+                         "here).")
+
+    # ------------------------------------------------------------ construction
+    def _action(self, text: str, slot, shortcut=None, icon=None, tip: str = "") -> QAction:
+        action = QAction(text, self)
+        if shortcut is not None:
+            action.setShortcut(QKeySequence(shortcut))
+        if icon is not None:
+            action.setIcon(self.style().standardIcon(icon))
+        if tip:
+            action.setToolTip(tip)
+            action.setStatusTip(tip)
+        action.triggered.connect(slot)
+        return action
+
+    def _make_actions(self) -> None:
+        sp = QStyle.StandardPixmap
+        self.undo_action = self.undo_stack.createUndoAction(self, "Undo")
+        self.undo_action.setShortcut(QKeySequence.StandardKey.Undo)
+        self.undo_action.setIcon(self.style().standardIcon(sp.SP_ArrowBack))
+        self.redo_action = self.undo_stack.createRedoAction(self, "Redo")
+        self.redo_action.setShortcut(QKeySequence.StandardKey.Redo)
+        self.redo_action.setIcon(self.style().standardIcon(sp.SP_ArrowForward))
+        self.add_job_action = self._action("Add job", self.add_job, "Ctrl+J",
+                                           sp.SP_FileDialogNewFolder, "Add a job to the day")
+        self.delete_jobs_action = self._action("Delete", self.delete_selected_jobs,
+                                               QKeySequence.StandardKey.Delete,
+                                               sp.SP_DialogDiscardButton,
+                                               "Delete the selected jobs")
+        self.delete_jobs_action.setShortcutContext(
+            Qt.ShortcutContext.WidgetWithChildrenShortcut)
+        self.cancel_action = self._action("Cancel solving", self.solver.cancel, "Esc",
+                                          sp.SP_BrowserStop, "Stop the solve in progress")
+        self.cancel_action.setEnabled(False)
+        self.proof_action = self._action("Show proof", self.show_proof, "Ctrl+P", None,
+                                         "Highlight the jobs that prove no smaller fleet "
+                                         "exists, and say why")
+        self.proof_action.setCheckable(True)
+        self.zoom_in_action = self._action("Zoom in", lambda: self.timeline.zoom_in(),
+                                           QKeySequence.StandardKey.ZoomIn)
+        self.zoom_out_action = self._action("Zoom out", lambda: self.timeline.zoom_out(),
+                                            QKeySequence.StandardKey.ZoomOut)
+        self.zoom_fit_action = self._action("Whole day", lambda: self.timeline.zoom_to_fit(),
+                                            "Ctrl+0")
+        self.about_action = self._action("About shipgui", self.show_about)
+
+    def _make_panels(self) -> None:
+        self.answer = AnswerBar(self.cancel_action)
+        self.jobs_panel = JobsPanel(self.jobs_model, [self.add_job_action,
+                                                      self.delete_jobs_action])
+        self.jobs_panel.table.addAction(self.delete_jobs_action)
+        self.inputs_panel = InputsPanel()
+        self.left_tabs = QTabWidget()
+        self.left_tabs.addTab(self.jobs_panel, "Jobs")
+        self.left_tabs.addTab(self.inputs_panel, "Day and files")
+        self.timeline = TimelineView(pixels_per_hour=self.settings.get("timeline/pixels_per_hour"))
+        self.certificate = CertificatePanel()
+        self.certificate.setVisible(False)
+        self.problem_list = ProblemList()
+        self.problem_heading = QLabel()
+        self.problem_heading.setStyleSheet("color: #9a2f2f; font-weight: 600;")
+        self.problem_box = QWidget()
+        box = QVBoxLayout(self.problem_box)
+        box.setContentsMargins(6, 6, 6, 6)
+        box.addWidget(self.problem_heading)
+        box.addWidget(self.problem_list, 1)
+        self.problem_box.setVisible(False)
+        self.caution = QLabel(CAUTION)
+        self.caution.setObjectName("caution")
+        self.caution.setWordWrap(True)
+        self.caution.setStyleSheet("color: #56657a; padding: 3px 8px;")
+        right = QSplitter(Qt.Orientation.Vertical)
+        right.addWidget(self.problem_box)
+        right.addWidget(self.timeline)
+        right.addWidget(self.certificate)
+        right.setStretchFactor(1, 3)
+        right.setStretchFactor(2, 2)
+        right.setChildrenCollapsible(False)
+        self.right_splitter = right
+        right_box = QWidget()
+        right_layout = QVBoxLayout(right_box)
+        right_layout.setContentsMargins(0, 0, 0, 0)
+        right_layout.setSpacing(0)
+        right_layout.addWidget(right, 1)
+        right_layout.addWidget(self.caution)
+        split = QSplitter(Qt.Orientation.Horizontal)
+        split.addWidget(self.left_tabs)
+        split.addWidget(right_box)
+        split.setStretchFactor(1, 1)
+        split.setSizes([430, 850])
+        central = QWidget()
+        layout = QVBoxLayout(central)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.setSpacing(0)
+        layout.addWidget(self.answer)
+        layout.addWidget(split, 1)
+        self.setCentralWidget(central)
+
+    def _make_menus(self) -> None:
+        bar = self.menuBar()
+        file_menu = bar.addMenu("&File")
+        self.files.fill_file_menu(file_menu)
+        edit = bar.addMenu("&Edit")
+        for action in (self.undo_action, self.redo_action, None, self.add_job_action,
+                       self.delete_jobs_action):
+            edit.addSeparator() if action is None else edit.addAction(action)
+        view = bar.addMenu("&View")
+        for action in (self.proof_action, None, self.zoom_in_action, self.zoom_out_action,
+                       self.zoom_fit_action):
+            view.addSeparator() if action is None else view.addAction(action)
+        plan = bar.addMenu("&Plan")
+        plan.addAction(self.cancel_action)
+        bar.addMenu("&Help").addAction(self.about_action)
+        tools = QToolBar("Main")
+        tools.setObjectName("mainToolbar")
+        tools.setMovable(False)
+        tools.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextBesideIcon)
+        for action in (self.files.open_action, self.files.save_action, None,
+                       self.undo_action, self.redo_action, None, self.proof_action,
+                       self.zoom_in_action, self.zoom_out_action, self.zoom_fit_action, None,
+                       *self.files.export_actions()):
+            tools.addSeparator() if action is None else tools.addAction(action)
+        for action in (self.undo_action, self.redo_action):  # their text grows with the edit
+            tools.widgetForAction(action).setToolButtonStyle(
+                Qt.ToolButtonStyle.ToolButtonIconOnly)
+        self.addToolBar(tools)
+        self.toolbar = tools
+
+    def _connect(self) -> None:
+        self.document.subscribe(self._on_document_change)
+        self.undo_stack.cleanChanged.connect(lambda _clean: self.update_title())
+        self.jobs_model.edit_refused.connect(self._refuse)
+        self.inputs_panel.settings_refused.connect(self._refuse)
+        self.inputs_panel.settings_edited.connect(
+            lambda s, text: self.undo_stack.push(ChangeSettings(self.document, s, text)))
+        self.inputs_panel.attach_requested.connect(self.files.attach_companion)
+        self.inputs_panel.remove_requested.connect(self.files.remove_companion)
+        self.jobs_panel.job_selected.connect(self.timeline.select_job)
+        self.timeline.job_selected.connect(self.jobs_panel.select_job)
+        self.timeline.zoom_changed.connect(
+            lambda v: self.settings.set("timeline/pixels_per_hour", v))
+        self.certificate.pair_selected.connect(self._on_pair)
+        self.problem_list.cellClicked.connect(self._on_problem_clicked)
+        self.solver.busy_changed.connect(self._on_busy)
+        self.solver.stage_changed.connect(lambda text: self.answer.set_busy(True, text))
+        self.solver.plan_ready.connect(self._on_plan)
+        self.solver.problems_found.connect(self._on_problems)
+        self.solver.solve_failed.connect(self._on_failure)
+        self.solver.solve_cancelled.connect(self._on_cancelled)
+
+    # ------------------------------------------------------------ state
+    def update_title(self) -> None:
+        self.setWindowTitle(f"{self.document.title}[*] — shipgui")
+        self.setWindowModified(not self.undo_stack.isClean())
+
+    def load_document(self, document: PlanDocument) -> None:
+        """Show a freshly opened day in this window (replaces the current one)."""
+        self.document.replace_all(document)
+        self.undo_stack.clear()
+        self.undo_stack.setClean()
+        self.update_title()
+
+    def request_solve(self) -> None:
+        self.plan_is_current = False
+        self.files.update_actions()
+        if not self.document.jobs:
+            self.solver.cancel()
+            self._show_empty("No jobs in this day yet: use Add job.")
+            return
+        self.solver.request(snapshot(self.document))
+
+    def _on_document_change(self, change: Change, done: bool) -> None:
+        if not done:
+            return
+        if change.kind in ("reset", "inputs"):
+            self.inputs_panel.show_document(self.document)
+        if change.kind == "reset":
+            self.update_title()
+        if change.field == "driver_names" and self.plan is not None:
+            self.timeline.set_plan(self.plan, self.document.driver_names)
+        self.jobs_panel.show_message("")
+        self.request_solve()
+
+    # ------------------------------------------------------------ solver outcomes
+    def _on_busy(self, busy: bool) -> None:
+        self.cancel_action.setEnabled(busy)
+        if busy:
+            self.answer.set_busy(True)
+
+    def _on_plan(self, plan: Plan, seconds: float) -> None:
+        self.plan, self.plan_is_current, self.problems = plan, True, []
+        self.problem_box.setVisible(False)
+        self.answer.show_plan(plan, seconds)
+        self.timeline.set_plan(plan, self.document.driver_names)
+        self.certificate.set_plan(plan)
+        self.jobs_model.set_plan(plan)
+        self.inputs_panel.show_notes(plan.day.warnings)
+        self.files.update_actions()
+        self.statusBar().showMessage(f"Solved {plan.day.n} jobs in {seconds * 1000:.0f} ms",
+                                     5000)
+        self.plan_shown.emit(plan)
+
+    def _on_problems(self, problems: list[Problem]) -> None:
+        self.problems = list(problems)
+        count = len(problems)
+        self._show_empty(f"No plan: {count} problem{'s' if count != 1 else ''} in the inputs "
+                         "(listed above the timeline).")
+        self.problem_heading.setText("The day cannot be planned until these are fixed "
+                                     "(edit the jobs, attach a file or change a setting):")
+        self.problem_list.set_problems(self.problems)
+        self.problem_box.setVisible(True)
+        self.plan_shown.emit(None)
+
+    def _on_failure(self, text: str, details: str) -> None:
+        self._show_empty(f"The solver stopped unexpectedly: {text}")
+        self.problem_heading.setText("Something went wrong inside the solver. Please report "
+                                     "it with the details below.")
+        self.problem_list.set_problems([Problem(text)])
+        self.problem_list.setToolTip(details)
+        self.problem_box.setVisible(True)
+        self.plan_shown.emit(None)
+
+    def _on_cancelled(self) -> None:
+        if self.plan is not None:
+            self.answer.show_stale("Solving was cancelled: the plan shown is out of date. "
+                                   "Make a change or reopen to solve again.")
+        else:
+            self.answer.show_nothing("Solving was cancelled.")
+        self.files.update_actions()
+
+    def _show_empty(self, why: str) -> None:
+        self.plan, self.plan_is_current = None, False
+        self.answer.show_nothing(why)
+        self.timeline.set_plan(None, message=why)
+        self.certificate.set_plan(None)
+        self.jobs_model.set_plan(None)
+        self.files.update_actions()
+
+    # ------------------------------------------------------------ user actions
+    def _refuse(self, text: str) -> None:
+        self.jobs_panel.show_message(text)
+        self.statusBar().showMessage(text, 8000)
+
+    def add_job(self) -> None:
+        doc = self.document
+        current = self.jobs_panel.current_job()
+        template = doc.jobs[doc.row_of(current)] if current else (
+            doc.jobs[-1] if doc.jobs else None)
+        origin = template.origin if template else (doc.settings.depot or "SITE")
+        start = template.end if template else 8 * 3600
+        job = Job(doc.new_job_id(), origin, origin, start, start + 3600,
+                  vehicle_class=template.vehicle_class if template else "")
+        self.undo_stack.push(AddJob(doc, len(doc.jobs), job))
+        self.left_tabs.setCurrentWidget(self.jobs_panel)
+        self.jobs_panel.edit_job(job.id, Column.ORIGIN)
+
+    def delete_selected_jobs(self) -> None:
+        rows = self.jobs_panel.selected_rows()
+        if rows:
+            self.undo_stack.push(DeleteJobs(self.document, rows))
+
+    def show_proof(self, on: bool) -> None:
+        self.certificate.setVisible(on)
+        self.timeline.set_certificate_highlight(on)
+        if on:
+            self.right_splitter.setSizes([0 if not self.problem_box.isVisible() else 120,
+                                          380, 260])
+
+    def _on_pair(self, first: str, second: str) -> None:
+        self.jobs_panel.select_job(first)
+        self.timeline.select_jobs([first, second])
+
+    def _on_problem_clicked(self, row: int, _column: int) -> None:
+        """Select the job a problem is about (by its row in the jobs file)."""
+        problem = self.problem_list.problem(row)
+        if not problem.row or problem.file != self.document.sources.get("jobs"):
+            return
+        for job in self.document.jobs:
+            if job.row == problem.row:
+                self.left_tabs.setCurrentWidget(self.jobs_panel)
+                self.jobs_panel.select_job(job.id)
+                return
+
+    def show_about(self) -> None:
+        QMessageBox.about(self, "About shipgui",
+                          "<p><b>shipgui</b> finds the fewest vehicles that can run a day of "
+                          "booked jobs, the routes, and a proof that fewer will not do.</p>"
+                          f"<p>{CAUTION}</p>")
+
+    # ------------------------------------------------------------ window events
+    def dragEnterEvent(self, event) -> None:
+        if self.files.droppable(event.mimeData()):
+            event.acceptProposedAction()
+
+    def dropEvent(self, event) -> None:
+        paths = self.files.droppable(event.mimeData())
+        if paths:
+            event.acceptProposedAction()
+            self.files.open_paths(paths)
+
+    def closeEvent(self, event: QCloseEvent) -> None:
+        if not self.files.maybe_save():
+            event.ignore()
+            return
+        self.solver.cancel()
+        self.settings.set("window/geometry", self.saveGeometry())
+        self.settings.sync()
+        event.accept()
+

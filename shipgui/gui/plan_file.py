@@ -1,0 +1,326 @@
+"""Files the desktop app reads and writes.
+
+- The plan document (``*.shipgui``, JSON): every input of the day, the
+  settings and the names given to vehicles, so a day can be saved and reopened.
+- The exported plan (``*.json``) in the format fixed by the planning contract.
+- CSV inputs: a jobs file with optional sites and travel files.
+
+Writes go through QSaveFile: the old file stays intact until the new one is
+complete, so a crash mid-write never leaves half a file.
+"""
+
+from __future__ import annotations
+
+import csv
+import json
+from datetime import date
+from pathlib import Path
+
+from PySide6.QtCore import QIODevice, QSaveFile
+
+from shipgui.core import (
+    InputError,
+    InputErrors,
+    Job,
+    Plan,
+    Problem,
+    Settings,
+    Site,
+    format_clock,
+    parse_clock,
+    read_jobs,
+    read_sites,
+    read_travel,
+)
+
+from .document import PlanDocument
+
+__all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "document_to_json",
+           "document_from_json", "save_document", "open_document", "open_inputs",
+           "plan_json", "write_plan_json", "write_file_safely", "csv_kind",
+           "companion_files"]
+
+FORMAT = "shipgui-plan"
+SCHEMA_VERSION = 1
+PLAN_SUFFIX = ".shipgui"
+
+
+# ------------------------------------------------------------------ writing
+def write_file_safely(path: str | Path, data: bytes) -> None:
+    """Write all of ``data`` or nothing; raises OSError with the reason."""
+    out = QSaveFile(str(path))
+    if not out.open(QIODevice.OpenModeFlag.WriteOnly):
+        raise OSError(f"cannot write {path}: {out.errorString()}")
+    if out.write(data) != len(data):
+        out.cancelWriting()
+        raise OSError(f"cannot write {path}: {out.errorString()}")
+    if not out.commit():
+        raise OSError(f"cannot write {path}: {out.errorString()}")
+
+
+def _clock_or_none(seconds: int | None) -> str | None:
+    return None if seconds is None else format_clock(seconds)
+
+
+def document_to_json(document: PlanDocument) -> dict:
+    s = document.settings
+    return {
+        "format": FORMAT,
+        "schema_version": SCHEMA_VERSION,
+        "plan_date": document.plan_date.isoformat() if document.plan_date else None,
+        "inputs": {
+            "jobs": [{"job": j.id, "origin": j.origin, "destination": j.destination,
+                      "start": format_clock(j.start), "end": format_clock(j.end),
+                      "vehicle_class": j.vehicle_class, "customer": j.customer,
+                      "reference": j.reference, "notes": j.notes} for j in document.jobs],
+            "sites": [{"site": x.id, "name": x.name, "address": x.address, "lat": x.lat,
+                       "lon": x.lon, "x_km": x.x_km, "y_km": x.y_km} for x in document.sites],
+            "travel": [{"from": a, "to": b, "seconds": sec}
+                       for (a, b), (sec, _row) in document.travel.items()],
+        },
+        "settings": {"turnaround_seconds": s.turnaround, "depot": s.depot,
+                     "day_start": _clock_or_none(s.day_start),
+                     "day_end": _clock_or_none(s.day_end),
+                     "speed_kmh": s.speed_kmh, "circuity": s.circuity},
+        "driver_names": {str(k): v for k, v in sorted(document.driver_names.items())},
+        "sources": dict(document.sources),
+    }
+
+
+def save_document(document: PlanDocument, path: str | Path) -> None:
+    data = json.dumps(document_to_json(document), indent=2, ensure_ascii=False) + "\n"
+    write_file_safely(path, data.encode("utf-8"))
+
+
+def plan_json(plan: Plan, driver_names: dict[int, str] | None = None) -> dict:
+    """The exported plan in the contract's format (plus a few welcome extras)."""
+    names = driver_names or {}
+    routes = []
+    for k, ids in enumerate(plan.route_ids(), start=1):
+        route = {"vehicle": k, "jobs": ids}
+        if names.get(k):
+            route["driver"] = names[k]
+        routes.append(route)
+    return {
+        "vehicles": plan.vehicles,
+        "routes": routes,
+        "certificate": {"jobs": plan.certificate_ids()},
+        "verified": bool(plan.verified),
+        "deadhead_minutes": round(plan.deadhead_seconds / 60, 1),
+        "fingerprint": plan.day.fingerprint,
+    }
+
+
+def write_plan_json(plan: Plan, path: str | Path,
+                    driver_names: dict[int, str] | None = None) -> None:
+    data = json.dumps(plan_json(plan, driver_names), indent=2, ensure_ascii=False) + "\n"
+    write_file_safely(path, data.encode("utf-8"))
+
+
+# ------------------------------------------------------------------ reading
+class _Reader:
+    """Collects the problems of one plan document."""
+
+    def __init__(self, path: str) -> None:
+        self.path = path
+        self.problems: list[Problem] = []
+
+    def add(self, message: str, row: int | None = None, column: str | None = None) -> None:
+        self.problems.append(Problem(message, self.path, row, column))
+
+    def text(self, record: dict, key: str, row: int, *, required: bool = False) -> str:
+        value = record.get(key, "")
+        if value is None:
+            value = ""
+        if not isinstance(value, str):
+            self.add(f"'{key}' should be text", row, key)
+            return ""
+        if required and not value.strip():
+            self.add(f"'{key}' is empty", row, key)
+        return value.strip()
+
+    def clock(self, value, row: int | None, key: str) -> int | None:
+        try:
+            parsed = parse_clock(str(value))
+        except ValueError as exc:
+            self.add(str(exc), row, key)
+            return None
+        if parsed.seconds is None:
+            self.add(f"'{value}' should be a clock time HH:MM", row, key)
+        return parsed.seconds
+
+    def number(self, value, row: int | None, key: str, *, optional: bool = True):
+        if value is None and optional:
+            return None
+        if isinstance(value, bool) or not isinstance(value, int | float):
+            self.add(f"'{key}' should be a number", row, key)
+            return None
+        return value
+
+
+def _records(reader: _Reader, inputs: dict, key: str) -> list[dict]:
+    records = inputs.get(key, [])
+    if not isinstance(records, list) or not all(isinstance(r, dict) for r in records):
+        reader.add(f"'inputs.{key}' should be a list of records", None, key)
+        return []
+    return records
+
+
+def _read_jobs(reader: _Reader, records: list[dict]) -> list[Job]:
+    jobs, seen = [], set()
+    for row, r in enumerate(records, start=1):
+        job_id = reader.text(r, "job", row, required=True)
+        origin = reader.text(r, "origin", row, required=True)
+        start = reader.clock(r.get("start"), row, "start")
+        end = reader.clock(r.get("end"), row, "end")
+        if job_id in seen:
+            reader.add(f"job '{job_id}' is listed twice", row, "job")
+        seen.add(job_id)
+        if start is not None and end is not None and end <= start:
+            reader.add(f"job '{job_id}' ends before or when it starts", row, "end")
+        texts = {k: reader.text(r, k, row) for k in
+                 ("destination", "vehicle_class", "customer", "reference", "notes")}
+        if start is not None and end is not None and job_id and origin:
+            texts["destination"] = texts["destination"] or origin
+            jobs.append(Job(job_id, origin, start=start, end=end, row=row, **texts))
+    return jobs
+
+
+def _read_sites(reader: _Reader, records: list[dict]) -> list[Site]:
+    sites = []
+    for row, r in enumerate(records, start=1):
+        site_id = reader.text(r, "site", row, required=True)
+        coords = {k: reader.number(r.get(k), row, k) for k in ("lat", "lon", "x_km", "y_km")}
+        sites.append(Site(site_id, reader.text(r, "name", row), reader.text(r, "address", row),
+                          **coords))
+    return sites
+
+
+def _read_travel(reader: _Reader, records: list[dict]) -> dict:
+    travel = {}
+    for row, r in enumerate(records, start=1):
+        a = reader.text(r, "from", row, required=True)
+        b = reader.text(r, "to", row, required=True)
+        seconds = r.get("seconds")
+        if isinstance(seconds, bool) or not isinstance(seconds, int) or seconds < 0:
+            reader.add("'seconds' should be a whole number, zero or more", row, "seconds")
+            continue
+        travel[(a, b)] = (seconds, row)
+    return travel
+
+
+def _read_settings(reader: _Reader, raw: dict) -> Settings:
+    if not isinstance(raw, dict):
+        reader.add("'settings' should be a record", None, "settings")
+        return Settings()
+    turnaround = reader.number(raw.get("turnaround_seconds", 0), None, "turnaround_seconds",
+                               optional=False)
+    day = {k: None if raw.get(k) is None else reader.clock(raw[k], None, k)
+           for k in ("day_start", "day_end")}
+    speed = reader.number(raw.get("speed_kmh"), None, "speed_kmh")
+    circuity = reader.number(raw.get("circuity"), None, "circuity")
+    defaults = Settings()
+    depot = raw.get("depot") or None
+    return Settings(turnaround=int(turnaround or 0),
+                    depot=str(depot) if depot else None, **day,
+                    speed_kmh=float(speed or defaults.speed_kmh),
+                    circuity=float(circuity or defaults.circuity))
+
+
+def document_from_json(data, path: str) -> PlanDocument:
+    """A document from parsed JSON; raises InputErrors naming every problem."""
+    reader = _Reader(path)
+    if not isinstance(data, dict) or data.get("format") != FORMAT:
+        hint = (" It looks like an exported plan; open the plan document (.shipgui) or "
+                "the jobs CSV instead." if isinstance(data, dict) and "routes" in data else "")
+        raise InputError(f"this is not a shipgui plan document.{hint}", file=path)
+    if data.get("schema_version") != SCHEMA_VERSION:
+        raise InputError(f"plan document version {data.get('schema_version')!r} is not "
+                         f"supported (this program reads version {SCHEMA_VERSION})", file=path)
+    inputs = data.get("inputs") if isinstance(data.get("inputs"), dict) else {}
+    jobs = _read_jobs(reader, _records(reader, inputs, "jobs"))
+    sites = _read_sites(reader, _records(reader, inputs, "sites"))
+    travel = _read_travel(reader, _records(reader, inputs, "travel"))
+    settings = _read_settings(reader, data.get("settings", {}))
+    names = data.get("driver_names", {})
+    drivers = ({int(k): str(v) for k, v in names.items() if str(k).isdigit()}
+               if isinstance(names, dict) else {})
+    plan_date = None
+    if data.get("plan_date"):
+        try:
+            plan_date = date.fromisoformat(str(data["plan_date"]))
+        except ValueError:
+            reader.add("'plan_date' should be a date like 2026-12-02", None, "plan_date")
+    if not jobs and not reader.problems:
+        reader.add("the plan document has no jobs")
+    if reader.problems:
+        raise InputErrors(reader.problems)
+    sources = {k: str(v) for k, v in (data.get("sources") or {}).items()}
+    return PlanDocument(jobs, sites, travel, settings, plan_date, sources, drivers,
+                        Path(path))
+
+
+def open_document(path: str | Path) -> PlanDocument:
+    path = Path(path)
+    try:
+        data = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError(f"cannot read the file: {exc}", file=str(path)) from None
+    except json.JSONDecodeError as exc:
+        raise InputError(f"the plan document is damaged (not valid JSON: {exc.msg})",
+                         file=str(path), row=exc.lineno) from None
+    return document_from_json(data, str(path))
+
+
+def open_inputs(jobs: str | Path, sites: str | Path | None = None,
+                travel: str | Path | None = None, *,
+                settings: Settings | None = None) -> PlanDocument:
+    """Read CSV inputs into a document; raises InputErrors for any file that fails.
+
+    Problems of all three files are reported together.
+    """
+    problems: list[Problem] = []
+    results: dict = {}
+    readers = {"jobs": (read_jobs, jobs), "sites": (read_sites, sites),
+               "travel": (read_travel, travel)}
+    for kind, (read, path) in readers.items():
+        if path is None:
+            continue
+        try:
+            results[kind] = read(path)
+        except InputError as exc:
+            problems.extend(exc.problems)
+    if problems:
+        raise InputErrors(problems)
+    job_list, plan_date = results["jobs"]
+    sources = {k: str(p) for k, (_r, p) in readers.items() if p is not None}
+    return PlanDocument(job_list, results.get("sites", []), results.get("travel", {}),
+                        settings or Settings(), plan_date, sources)
+
+
+def csv_kind(path: str | Path) -> str | None:
+    """"jobs", "sites" or "travel" from the header of a CSV file, else None."""
+    try:
+        with open(path, encoding="utf-8-sig", newline="") as f:
+            header = next(csv.reader(f), [])
+    except (OSError, UnicodeDecodeError, csv.Error):
+        return None
+    names = {h.strip().casefold() for h in header}
+    if "job" in names:
+        return "jobs"
+    if {"from", "to", "minutes"} <= names:
+        return "travel"
+    if "site" in names:
+        return "sites"
+    return None
+
+
+def companion_files(jobs: str | Path) -> dict[str, Path]:
+    """Sites and travel files lying next to a jobs file as sites.csv / travel.csv."""
+    folder = Path(jobs).resolve().parent
+    found = {}
+    for kind in ("sites", "travel"):
+        candidate = folder / f"{kind}.csv"
+        if candidate.is_file() and csv_kind(candidate) == kind:
+            found[kind] = candidate
+    return found

@@ -1,0 +1,384 @@
+"""The timeline: one row per vehicle, a bar per job, thin bars for empty driving."""
+
+from __future__ import annotations
+
+import math
+
+from PySide6.QtCore import QRectF, Qt, Signal
+from PySide6.QtGui import QBrush, QColor, QFont, QFontMetricsF, QPainter, QPen
+from PySide6.QtWidgets import (
+    QGraphicsItem,
+    QGraphicsRectItem,
+    QGraphicsScene,
+    QGraphicsSimpleTextItem,
+    QGraphicsView,
+)
+
+from shipgui.core import Plan, format_clock, format_minutes
+from shipgui.core.deadhead import route_legs
+
+__all__ = ["TimelineView", "JobBar", "COLOURS"]
+
+ROW_HEIGHT = 30
+BAR_HEIGHT = 20
+LEG_HEIGHT = 6
+LABEL_WIDTH = 96  # at least; grows with the longest vehicle name, up to MAX_LABEL_WIDTH
+MAX_LABEL_WIDTH = 260
+LEFT_PAD = 28  # room for the first hour's label right of the vehicle names
+AXIS_HEIGHT = 26
+MIN_PX_PER_HOUR, MAX_PX_PER_HOUR = 20, 1200
+
+COLOURS = {
+    "job": QColor("#4f78a8"),
+    "job_text": QColor("#ffffff"),
+    "certificate": QColor("#d08a2e"),
+    "muted": QColor("#a9b8cc"),
+    "selected": QColor("#1b2a3a"),
+    "leg": QColor("#9aa5b1"),
+    "stripe": QColor("#f3f5f8"),
+    "grid": QColor("#dde2e8"),
+    "axis": QColor("#eef1f5"),
+    "label": QColor("#2b3642"),
+    "day": QColor("#7d8b99"),
+}
+
+
+class JobBar(QGraphicsRectItem):
+    """One job on the timeline; selectable, carries the job id."""
+
+    def __init__(self, rect: QRectF, job_id: str, tooltip: str) -> None:
+        super().__init__(rect)
+        self.job_id = job_id
+        self.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIsSelectable, True)
+        self.setToolTip(tooltip)
+        self.setPen(QPen(Qt.PenStyle.NoPen))
+        self.setZValue(2)
+        self.base_brush = QBrush(COLOURS["job"])
+        self.setBrush(self.base_brush)
+
+    def paint(self, painter: QPainter, option, widget=None) -> None:
+        painter.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+        painter.setBrush(self.base_brush)
+        if self.isSelected():
+            painter.setPen(QPen(COLOURS["selected"], 2.5))
+        else:
+            painter.setPen(QPen(Qt.PenStyle.NoPen))
+        painter.drawRoundedRect(self.rect(), 3, 3)
+
+
+class TimelineView(QGraphicsView):
+    """Shows a plan; emits ``job_selected(id)`` when the user picks a job bar."""
+
+    job_selected = Signal(str)
+    zoom_changed = Signal(int)
+
+    def __init__(self, parent=None, *, pixels_per_hour: int = 90) -> None:
+        super().__init__(parent)
+        self.setScene(QGraphicsScene(self))
+        self.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+        self.setAlignment(Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignTop)
+        self.setDragMode(QGraphicsView.DragMode.ScrollHandDrag)
+        self.setBackgroundBrush(QBrush(QColor("#ffffff")))
+        self._px_per_hour = pixels_per_hour
+        self._plan: Plan | None = None
+        self._names: dict[int, str] = {}
+        self._highlight_certificate = False
+        self._bars: dict[str, JobBar] = {}
+        self._pinned_labels: list[QGraphicsItem] = []
+        self._pinned_axis: list[QGraphicsItem] = []
+        self._t0 = 0
+        self._label_width = LABEL_WIDTH
+        self._quiet = False
+        self._message = "No plan yet."
+        self.scene().selectionChanged.connect(self._on_selection)
+        self.horizontalScrollBar().valueChanged.connect(self._pin)
+        self.verticalScrollBar().valueChanged.connect(self._pin)
+        self._rebuild()
+
+    # ------------------------------------------------------------ public
+    @property
+    def pixels_per_hour(self) -> int:
+        return self._px_per_hour
+
+    def set_plan(self, plan: Plan | None, driver_names: dict[int, str] | None = None,
+                 *, message: str = "No plan yet.") -> None:
+        selected = self.selected_job()
+        self._plan = plan
+        self._names = dict(driver_names or {})
+        self._message = message
+        self._rebuild()
+        if selected:
+            self.select_job(selected)
+
+    def set_certificate_highlight(self, on: bool) -> None:
+        self._highlight_certificate = on
+        self._colour_bars()
+
+    def job_bar(self, job_id: str) -> JobBar | None:
+        return self._bars.get(job_id)
+
+    def selected_job(self) -> str | None:
+        for item in self.scene().selectedItems():
+            if isinstance(item, JobBar):
+                return item.job_id
+        return None
+
+    def select_job(self, job_id: str | None, *, centre: bool = True) -> None:
+        """Select (and scroll to) a job without emitting ``job_selected``."""
+        self.select_jobs([job_id] if job_id else [], centre=centre)
+
+    def select_jobs(self, job_ids: list[str], *, centre: bool = True) -> None:
+        """Select several jobs (e.g. a pair of the proof) without emitting signals."""
+        self._quiet = True
+        try:
+            self.scene().clearSelection()
+            bars = [self._bars[j] for j in job_ids if j in self._bars]
+            for bar in bars:
+                bar.setSelected(True)
+            if bars and centre:
+                self.ensureVisible(bars[0], 60, 40)
+        finally:
+            self._quiet = False
+
+    def set_pixels_per_hour(self, value: float) -> None:
+        value = int(max(MIN_PX_PER_HOUR, min(MAX_PX_PER_HOUR, round(value))))
+        if value == self._px_per_hour:
+            return
+        hours_at_left = self._hours_at(self.viewport().width() / 2)
+        self._px_per_hour = value
+        selected = self.selected_job()
+        self._rebuild()
+        self.select_job(selected, centre=False)
+        self._scroll_to_hours(hours_at_left, self.viewport().width() / 2)
+        self.zoom_changed.emit(value)
+
+    def zoom_in(self) -> None:
+        self.set_pixels_per_hour(self._px_per_hour * 1.25)
+
+    def zoom_out(self) -> None:
+        self.set_pixels_per_hour(self._px_per_hour / 1.25)
+
+    def zoom_to_fit(self) -> None:
+        if self._plan is None or not self._plan.routes:
+            return
+        hours = self._span_hours()
+        width = max(100, self.viewport().width() - self._label_width - LEFT_PAD - 20)
+        self.set_pixels_per_hour(width / max(hours, 1))
+
+    # ------------------------------------------------------------ events
+    def wheelEvent(self, event) -> None:
+        if event.modifiers() & Qt.KeyboardModifier.ControlModifier:
+            x = event.position().x()
+            hours = self._hours_at(x)
+            factor = 1.25 if event.angleDelta().y() > 0 else 1 / 1.25
+            self.set_pixels_per_hour(self._px_per_hour * factor)
+            self._scroll_to_hours(hours, x)
+            event.accept()
+            return
+        super().wheelEvent(event)
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        self._pin()
+
+    # ------------------------------------------------------------ geometry
+    def _x(self, seconds: int) -> float:
+        return self._label_width + LEFT_PAD + (seconds - self._t0) / 3600 * self._px_per_hour
+
+    def _hours_at(self, viewport_x: float) -> float:
+        scene_x = self.mapToScene(int(viewport_x), 0).x()
+        return (self._t0 / 3600) + (scene_x - self._label_width - LEFT_PAD) / self._px_per_hour
+
+    def _scroll_to_hours(self, hours: float, viewport_x: float) -> None:
+        scene_x = self._label_width + LEFT_PAD + (hours - self._t0 / 3600) * self._px_per_hour
+        bar = self.horizontalScrollBar()
+        bar.setValue(int(scene_x - viewport_x))
+
+    def _span(self) -> tuple[int, int]:
+        plan = self._plan
+        day = plan.day
+        lo, hi = int(day.start.min()), int(day.end.max())
+        legs_lo, legs_hi = lo, hi
+        for route in plan.routes:
+            legs = route_legs(day, route)
+            legs_lo = min(legs_lo, int(day.start[route[0]]) - legs.before[0])
+            legs_hi = max(legs_hi, int(day.end[route[-1]]) + legs.pull_in)
+        s = day.settings
+        for t in (s.day_start, s.day_end):
+            if t is not None:
+                legs_lo, legs_hi = min(legs_lo, t), max(legs_hi, t)
+        return (math.floor(legs_lo / 3600) * 3600, math.ceil(legs_hi / 3600) * 3600)
+
+    def _span_hours(self) -> float:
+        lo, hi = self._span()
+        return (hi - lo) / 3600
+
+    # ------------------------------------------------------------ drawing
+    def _rebuild(self) -> None:
+        scene = self.scene()
+        self._quiet = True
+        scene.clear()
+        self._quiet = False
+        self._bars = {}
+        self._pinned_labels, self._pinned_axis = [], []
+        if self._plan is None or not self._plan.routes:
+            text = scene.addSimpleText(self._message)
+            text.setBrush(QBrush(COLOURS["day"]))
+            text.setPos(16, 16)
+            scene.setSceneRect(0, 0, 400, 80)
+            return
+        self._t0, t1 = self._span()
+        rows = len(self._plan.routes)
+        self._label_width = self._measure_labels(rows)
+        width = self._x(t1) + 16
+        height = AXIS_HEIGHT + rows * ROW_HEIGHT + 8
+        scene.setSceneRect(0, 0, width, height)
+        self._draw_rows(rows, width)
+        self._draw_hours(t1, height)
+        self._draw_day_limits(height)
+        for k, route in enumerate(self._plan.routes):
+            self._draw_route(k, route)
+        self._draw_labels(rows, height)
+        self._colour_bars()
+        self._pin()
+
+    def _draw_rows(self, rows: int, width: float) -> None:
+        no_pen = QPen(Qt.PenStyle.NoPen)
+        for k in range(rows):
+            if k % 2:
+                self.scene().addRect(QRectF(0, AXIS_HEIGHT + k * ROW_HEIGHT, width, ROW_HEIGHT),
+                                     no_pen, QBrush(COLOURS["stripe"])).setZValue(-2)
+
+    def _draw_hours(self, t1: int, height: float) -> None:
+        scene = self.scene()
+        axis = scene.addRect(QRectF(0, 0, self._x(t1) + 16, AXIS_HEIGHT),
+                             QPen(Qt.PenStyle.NoPen), QBrush(COLOURS["axis"]))
+        axis.setZValue(5)
+        self._pinned_axis.append(axis)
+        step = 1 if self._px_per_hour >= 40 else (2 if self._px_per_hour >= 22 else 4)
+        grid_pen = QPen(COLOURS["grid"], 1)
+        for hour in range(self._t0 // 3600, t1 // 3600 + 1):
+            x = self._x(hour * 3600)
+            scene.addLine(x, AXIS_HEIGHT, x, height, grid_pen).setZValue(-1)
+            if hour % step == 0:
+                label = QGraphicsSimpleTextItem(format_clock(hour * 3600), axis)
+                label.setBrush(QBrush(COLOURS["label"]))
+                label.setPos(x - label.boundingRect().width() / 2, 5)
+            if self._px_per_hour >= 160:  # quarter-hour ticks when zoomed in
+                for q in (1, 2, 3):
+                    xq = x + q * self._px_per_hour / 4
+                    scene.addLine(xq, AXIS_HEIGHT, xq, height,
+                                  QPen(COLOURS["grid"], 1, Qt.PenStyle.DotLine)).setZValue(-1)
+
+    def _draw_day_limits(self, height: float) -> None:
+        s = self._plan.day.settings
+        pen = QPen(COLOURS["day"], 1.5, Qt.PenStyle.DashLine)
+        for t in (s.day_start, s.day_end):
+            if t is not None:
+                self.scene().addLine(self._x(t), AXIS_HEIGHT, self._x(t), height,
+                                     pen).setZValue(0)
+
+    def _draw_route(self, k: int, route: tuple[int, ...]) -> None:
+        day = self._plan.day
+        scene = self.scene()
+        y = AXIS_HEIGHT + k * ROW_HEIGHT + (ROW_HEIGHT - BAR_HEIGHT) / 2
+        legs = route_legs(day, route)
+        leg_brush = QBrush(COLOURS["leg"])
+        leg_y = y + (BAR_HEIGHT - LEG_HEIGHT) / 2
+        font = QFont()
+        font.setPointSizeF(max(7.0, font.pointSizeF() - 1))
+        metrics = QFontMetricsF(font)
+        for pos, j in enumerate(route):
+            job = day.jobs[j]
+            empty = legs.before[pos]
+            if empty:
+                where = "the depot" if pos == 0 else day.jobs[route[pos - 1]].destination
+                leg = scene.addRect(QRectF(self._x(job.start - empty), leg_y,
+                                           empty / 3600 * self._px_per_hour, LEG_HEIGHT),
+                                    QPen(Qt.PenStyle.NoPen), leg_brush)
+                leg.setToolTip(f"Empty drive {format_minutes(empty)} min from {where} "
+                               f"to {job.origin}")
+                leg.setZValue(1)
+            rect = QRectF(self._x(job.start), y, (job.end - job.start) / 3600
+                          * self._px_per_hour, BAR_HEIGHT)
+            bar = JobBar(rect, job.id, _job_tooltip(day, job))
+            scene.addItem(bar)
+            self._bars[job.id] = bar
+            if metrics.horizontalAdvance(job.id) + 6 <= rect.width():
+                text = QGraphicsSimpleTextItem(job.id, bar)
+                text.setFont(font)
+                text.setBrush(QBrush(COLOURS["job_text"]))
+                text.setPos(rect.x() + 4, rect.y() + (BAR_HEIGHT - metrics.height()) / 2)
+        if legs.pull_in:
+            last = day.jobs[route[-1]]
+            leg = scene.addRect(QRectF(self._x(last.end), leg_y,
+                                       legs.pull_in / 3600 * self._px_per_hour, LEG_HEIGHT),
+                                QPen(Qt.PenStyle.NoPen), leg_brush)
+            leg.setToolTip(f"Empty drive back to the depot, {format_minutes(legs.pull_in)} min")
+            leg.setZValue(1)
+
+    def _label(self, k: int) -> str:
+        name = self._names.get(k + 1, "")
+        return f"Vehicle {k + 1}" + (f" · {name}" if name else "")
+
+    def _measure_labels(self, rows: int) -> float:
+        metrics = QFontMetricsF(QFont())
+        widest = max(metrics.horizontalAdvance(self._label(k)) for k in range(rows))
+        return min(MAX_LABEL_WIDTH, max(LABEL_WIDTH, widest + 22))
+
+    def _draw_labels(self, rows: int, height: float) -> None:
+        scene = self.scene()
+        panel = scene.addRect(QRectF(0, 0, self._label_width - 6, height),
+                              QPen(COLOURS["grid"]), QBrush(QColor("#ffffff")))
+        panel.setZValue(6)
+        self._pinned_labels.append(panel)
+        metrics = QFontMetricsF(QFont())
+        for k in range(rows):
+            text = metrics.elidedText(self._label(k), Qt.TextElideMode.ElideRight,
+                                      self._label_width - 16)
+            label = QGraphicsSimpleTextItem(text, panel)
+            label.setBrush(QBrush(COLOURS["label"]))
+            y = AXIS_HEIGHT + k * ROW_HEIGHT + (ROW_HEIGHT - metrics.height()) / 2
+            label.setPos(6, y)
+        corner = scene.addRect(QRectF(0, 0, self._label_width - 6, AXIS_HEIGHT),
+                               QPen(Qt.PenStyle.NoPen), QBrush(COLOURS["axis"]))
+        corner.setZValue(7)
+        self._pinned_labels.append(corner)
+        self._pinned_axis.append(corner)
+
+    def _colour_bars(self) -> None:
+        if self._plan is None:
+            return
+        certificate = set(self._plan.certificate_ids()) if self._highlight_certificate else set()
+        for job_id, bar in self._bars.items():
+            if not self._highlight_certificate:
+                colour = COLOURS["job"]
+            else:
+                colour = COLOURS["certificate"] if job_id in certificate else COLOURS["muted"]
+            bar.base_brush = QBrush(colour)
+            bar.update()
+
+    def _pin(self, *_args) -> None:
+        """Keep the vehicle names and the hour axis in view while scrolling."""
+        top_left = self.mapToScene(0, 0)
+        for item in self._pinned_labels:
+            item.setX(max(0.0, top_left.x()))
+        for item in self._pinned_axis:
+            item.setY(max(0.0, top_left.y()))
+
+    def _on_selection(self) -> None:
+        if self._quiet:
+            return
+        job_id = self.selected_job()
+        if job_id is not None:
+            self.job_selected.emit(job_id)
+
+
+def _job_tooltip(day, job) -> str:
+    lines = [f"{job.id}: {format_clock(job.start)}–{format_clock(job.end)}",
+             f"{day.site_label(job.origin)} → {day.site_label(job.destination)}"]
+    if job.customer:
+        lines.append(job.customer)
+    if job.notes:
+        lines.append(job.notes)
+    return "\n".join(lines)

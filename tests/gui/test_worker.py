@@ -1,0 +1,127 @@
+"""Solving in a worker: signals, cancelling, stale results, and the 1 000-job re-solve."""
+
+from __future__ import annotations
+
+import threading
+import time
+
+from PySide6.QtCore import QThreadPool
+
+from shipgui.core import Job
+from shipgui.gui.worker import SolveController, SolveWorker, snapshot
+from tests.support.days import regional_day
+
+from .conftest import WAIT_MS, small_document
+
+
+def test_worker_reports_a_plan(qtbot):
+    worker = SolveWorker(7, snapshot(small_document()), threading.Event())
+    stages = []
+    worker.signals.progress.connect(lambda g, s: stages.append((g, s)))
+    with qtbot.waitSignal(worker.signals.finished, timeout=WAIT_MS) as blocker:
+        QThreadPool.globalInstance().start(worker)
+    generation, plan, seconds = blocker.args
+    assert generation == 7 and plan.vehicles == 2 and plan.verified and seconds >= 0
+    qtbot.waitUntil(lambda: ("verification" in {s for _, s in stages}), timeout=WAIT_MS)
+    assert stages[0] == (7, "checking")
+
+
+def test_worker_reports_input_problems_as_a_signal(qtbot):
+    doc = small_document()
+    doc.jobs[0] = Job("J1", "NOWHERE", "B", 8 * 3600, 9 * 3600)
+    worker = SolveWorker(1, snapshot(doc), threading.Event())
+    with qtbot.waitSignal(worker.signals.errored, timeout=WAIT_MS) as blocker:
+        QThreadPool.globalInstance().start(worker)
+    assert blocker.args[1] == "input"
+    assert "NOWHERE" in blocker.args[2][0].message
+
+
+def test_worker_stops_when_the_flag_is_set(qtbot):
+    flag = threading.Event()
+    flag.set()
+    worker = SolveWorker(3, snapshot(small_document()), flag)
+    with qtbot.waitSignal(worker.signals.errored, timeout=WAIT_MS) as blocker:
+        QThreadPool.globalInstance().start(worker)
+    assert blocker.args[:2] == [3, "cancelled"]
+
+
+def test_worker_failure_is_a_signal_not_an_exception(qtbot):
+    def broken():
+        raise RuntimeError("disk on fire")
+
+    worker = SolveWorker(4, broken, threading.Event())
+    with qtbot.waitSignal(worker.signals.errored, timeout=WAIT_MS) as blocker:
+        QThreadPool.globalInstance().start(worker)
+    assert blocker.args[1] == "failure" and "disk on fire" in blocker.args[2][0]
+
+
+def test_only_the_newest_request_is_reported(qtbot):
+    controller = SolveController(delay_ms=0)
+    plans = []
+    controller.plan_ready.connect(lambda plan, s: plans.append(plan))
+    slow_started = threading.Event()
+    release = threading.Event()
+    first = small_document()
+
+    def slow_build():
+        slow_started.set()
+        release.wait(5)
+        return first.build()
+
+    second = small_document()
+    second.jobs = second.jobs[:1]
+    controller.request(slow_build)
+    qtbot.waitUntil(slow_started.is_set, timeout=WAIT_MS)
+    with qtbot.waitSignal(controller.plan_ready, timeout=WAIT_MS):
+        controller.request(snapshot(second))
+    release.set()
+    QThreadPool.globalInstance().waitForDone(WAIT_MS)
+    qtbot.wait(50)
+    assert [p.day.n for p in plans] == [1]  # the older, slower result was dropped
+    assert not controller.busy
+
+
+def test_cancel_sets_the_flag_and_reports(qtbot):
+    controller = SolveController(delay_ms=0)
+    started = threading.Event()
+    seen_flag = []
+
+    def build():
+        started.set()
+        time.sleep(0.2)
+        return small_document().build()
+
+    controller.request(build)
+    qtbot.waitUntil(started.is_set, timeout=WAIT_MS)
+    flag = controller._flag  # noqa: SLF001 - the flag handed to the worker
+    with qtbot.waitSignal(controller.solve_cancelled, timeout=1000):
+        controller.cancel()
+    seen_flag.append(flag.is_set())
+    plans = []
+    controller.plan_ready.connect(lambda p, s: plans.append(p))
+    QThreadPool.globalInstance().waitForDone(WAIT_MS)
+    qtbot.wait(50)
+    assert seen_flag == [True] and plans == [] and not controller.busy
+
+
+def test_resolve_of_a_1000_job_day(qtbot, capsys):
+    """Measure what a dispatcher waits for after an edit of a 1 000-job day."""
+    day = regional_day(1000, 100)
+    from shipgui.gui.document import PlanDocument
+    doc = PlanDocument(list(day.jobs), list(day.sites.values()), {}, day.settings)
+    controller = SolveController(delay_ms=0)
+    with qtbot.waitSignal(controller.plan_ready, timeout=60_000):  # first: compiles kernels
+        controller.request(snapshot(doc))
+    times = []
+    for k in range(3):
+        doc.jobs[k] = Job(doc.jobs[k].id, doc.jobs[k].origin, doc.jobs[k].destination,
+                          doc.jobs[k].start, doc.jobs[k].end + 60)
+        t0 = time.perf_counter()
+        with qtbot.waitSignal(controller.plan_ready, timeout=WAIT_MS) as blocker:
+            controller.request(snapshot(doc))
+        times.append(time.perf_counter() - t0)
+        assert blocker.args[0].verified
+    with capsys.disabled():
+        print(f"\n1000-job re-solve (edit to plan on screen): "
+              f"{', '.join(f'{t * 1000:.0f} ms' for t in times)}")
+    assert min(times) < 5.0
