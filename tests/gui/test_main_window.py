@@ -299,3 +299,13 @@ def test_recent_menu_reopens_and_reports_a_missing_file(window, tmp_path):
     actions[0].trigger()
     assert "cannot read the file" in window.files.problem_dialog.list.problem_texts()[0]
     window.files.problem_dialog.close()
+
+
+def test_export_pdf_with_the_real_writer(qtbot, small_window, tmp_path, monkeypatch):
+    from pypdf import PdfReader
+    w = small_window
+    monkeypatch.setattr(QFileDialog, "getSaveFileName",
+                        lambda *a, **k: (str(tmp_path / "sheets.pdf"), ""))
+    w.files.export_pdf_action.trigger()
+    text = "".join(p.extract_text() for p in PdfReader(tmp_path / "sheets.pdf").pages)
+    assert "Vehicle 2" in text and "J4" in text and "local law" in text
