@@ -55,6 +55,15 @@ def _add_common(p: argparse.ArgumentParser) -> None:
                    help=f"average speed for estimated travel (default {DEFAULT_SPEED_KMH:g})")
     p.add_argument("--circuity", type=float, default=DEFAULT_CIRCUITY,
                    help=f"road distance / straight distance (default {DEFAULT_CIRCUITY:g})")
+    p.add_argument("--least-deadhead", action="store_true",
+                   help="among minimum-fleet plans, pick one with the least empty driving "
+                   "(exact; slower on very large days)")
+    p.add_argument("--tradeoff", metavar="N", type=int, default=5,
+                   help="with --least-deadhead: also price up to N extra vehicles (default 5)")
+    p.add_argument("--vehicle-cost", metavar="COST", type=float,
+                   help="cost of one vehicle-day, to find the cheapest fleet size")
+    p.add_argument("--empty-hour-cost", metavar="COST", type=float,
+                   help="cost of one hour of empty driving, to find the cheapest fleet size")
     p.add_argument("--json", metavar="OUT.json", help="write the plan as JSON")
     p.add_argument("--pdf", metavar="OUT.pdf", help="write driver sheets and the certificate")
     p.add_argument("--verbose", action="store_true", help="print timings per stage")
@@ -104,14 +113,33 @@ def _check_outputs(args: argparse.Namespace, inputs: list[str | None]) -> None:
             raise UsageError(f"--{option} {out}: that is a folder")
 
 
+def _cost_model(plan: Plan, args: argparse.Namespace) -> dict | None:
+    """Cheapest fleet size over the trade-off points for the given unit costs."""
+    if args.vehicle_cost is None and args.empty_hour_cost is None:
+        return None
+    vehicle, hour = args.vehicle_cost or 0.0, args.empty_hour_cost or 0.0
+    points = plan.tradeoff or ((plan.vehicles, plan.deadhead_seconds),)
+    costs = [{"vehicles": k, "cost": round(k * vehicle + d / 3600 * hour, 2)}
+             for k, d in points]
+    cheapest = min(costs, key=lambda c: (c["cost"], c["vehicles"]))
+    return {"vehicle_cost": vehicle, "empty_hour_cost": hour, "costs": costs,
+            "cheapest_vehicles": cheapest["vehicles"]}
+
+
 def _render_outputs(plan: Plan, args: argparse.Namespace) -> dict[str, bytes]:
     outputs: dict[str, bytes] = {}
     if args.json:
-        outputs[args.json] = plan_to_json(plan).encode("utf-8")
+        outputs[args.json] = plan_to_json(plan, cost_model=_cost_model(plan, args)
+                                          ).encode("utf-8")
     if args.pdf:
         from .report import build_pdf_bytes
         outputs[args.pdf] = build_pdf_bytes(plan)
     return outputs
+
+
+def _hours(seconds: int) -> str:
+    hours, minutes = divmod(round(seconds / 60), 60)
+    return f"{hours} h {minutes:02d} min"
 
 
 def _summary(plan: Plan, label: str) -> str:
@@ -129,8 +157,9 @@ def _summary(plan: Plan, label: str) -> str:
     ids = plan.certificate_ids()
     for k in range(0, len(ids), 10):
         lines.append("  " + " ".join(ids[k:k + 10]))
-    hours, minutes = divmod(round(plan.deadhead_seconds / 60), 60)
-    lines.append(f"Empty driving: {hours} h {minutes:02d} min in all")
+    lines.append(f"Empty driving: {_hours(plan.deadhead_seconds)} in all")
+    for vehicles, dead in plan.tradeoff[1:]:
+        lines.append(f"  with at most {vehicles} vehicles: {_hours(dead)} empty driving")
     for w in day.warnings:
         lines.append(f"Warning: {w}")
     for number, route in enumerate(plan.routes[:5], start=1):
@@ -149,7 +178,8 @@ def _run_solve(args: argparse.Namespace, files: dict[str, str | None], settings:
     t0 = time.perf_counter()
     day = load_day(files["jobs"], files.get("sites"), files.get("travel"), settings=settings)
     t1 = time.perf_counter()
-    plan = solve_day(day)
+    plan = solve_day(day, least_deadhead=args.least_deadhead,
+                     tradeoff=max(0, args.tradeoff) if args.least_deadhead else 0)
     if not plan.verified:
         print(_summary(plan, label), file=sys.stderr)
         return 1
@@ -159,6 +189,9 @@ def _run_solve(args: argparse.Namespace, files: dict[str, str | None], settings:
         write_bytes_atomic(path, data)
     t3 = time.perf_counter()
     print(_summary(plan, label))
+    model = _cost_model(plan, args)
+    if model:
+        print(f"Cheapest fleet for the given costs: {model['cheapest_vehicles']} vehicles")
     for path in outputs:
         print(f"Wrote {path}")
     if args.verbose:
@@ -181,6 +214,10 @@ def cmd_demo(argv: list[str]) -> int:
     p.add_argument("--json", metavar="OUT.json")
     p.add_argument("--pdf", metavar="OUT.pdf")
     p.add_argument("--verbose", action="store_true")
+    p.add_argument("--least-deadhead", action="store_true")
+    p.add_argument("--tradeoff", metavar="N", type=int, default=5)
+    p.add_argument("--vehicle-cost", metavar="COST", type=float)
+    p.add_argument("--empty-hour-cost", metavar="COST", type=float)
     args = p.parse_args(argv)
     files = {k: str(v) for k, v in demo_files().items()}
     print("Demo: Brindlemoor Building Supply, an invented builders' merchant; depot YARD, "

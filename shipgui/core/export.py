@@ -15,7 +15,7 @@ def _minutes(seconds: int) -> float:
     return int(value) if value.is_integer() else round(value, 2)
 
 
-def plan_to_dict(plan: Plan) -> dict:
+def plan_to_dict(plan: Plan, *, cost_model: dict | None = None) -> dict:
     """Fixed keys: vehicles, routes (vehicle, jobs), certificate.jobs, verified."""
     day = plan.day
     routes = []
@@ -26,6 +26,12 @@ def plan_to_dict(plan: Plan) -> dict:
         if plan.route_deadhead_seconds:
             entry["deadhead_minutes"] = _minutes(plan.route_deadhead_seconds[number - 1])
         routes.append(entry)
+    extra: dict = {}
+    if plan.tradeoff:
+        extra["tradeoff"] = [{"vehicles": k, "deadhead_minutes": _minutes(d)}
+                             for k, d in plan.tradeoff]
+    if cost_model is not None:
+        extra["cost_model"] = cost_model
     return {
         "vehicles": plan.vehicles,
         "routes": routes,
@@ -47,8 +53,10 @@ def plan_to_dict(plan: Plan) -> dict:
             "speed_kmh": day.settings.speed_kmh,
             "circuity": day.settings.circuity,
         },
+        **extra,
     }
 
 
-def plan_to_json(plan: Plan) -> str:
-    return json.dumps(plan_to_dict(plan), indent=2, ensure_ascii=False) + "\n"
+def plan_to_json(plan: Plan, *, cost_model: dict | None = None) -> str:
+    return json.dumps(plan_to_dict(plan, cost_model=cost_model), indent=2,
+                      ensure_ascii=False) + "\n"

@@ -14,7 +14,7 @@ from collections.abc import Callable
 import numpy as np
 
 from .deadhead import plan_deadhead
-from .least_deadhead import class_costs, least_cost_links
+from .least_deadhead import class_costs, least_cost_links, tradeoff_curve
 from .matching import default_kernel, maximum_matching
 from .model import Day, Plan
 from .precedence import class_indexes
@@ -28,13 +28,16 @@ class Cancelled(Exception):
 
 
 def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = False,
+              tradeoff: int = 0,
               progress: Callable[[str], None] | None = None,
               cancelled: Callable[[], bool] | None = None) -> Plan:
     """Minimum fleet, routes and certificate for ``day``, independently verified.
 
     With ``least_deadhead`` the routes are, among all minimum-fleet plans, one
     with the least empty driving (:mod:`shipgui.core.least_deadhead`; exact, but
-    not yet fast enough on very large days to be the default).
+    not yet fast enough on very large days to be the default); ``tradeoff``
+    extra vehicles are then priced: ``plan.tradeoff`` lists (vehicles, least
+    empty driving with at most that many vehicles).
     ``progress`` is called with a stage name between steps; when
     ``cancelled()`` turns true the solve stops with :class:`Cancelled`.
     Running time O(phases * n * sites); memory O(n * sites).
@@ -55,15 +58,20 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Fal
     t = stage("relation", t)
     routes: list[tuple[int, ...]] = []
     certificate: list[int] = []
+    savings: list[int] = []
     for index in indexes:
         matching = maximum_matching(index, kernel=kernel, day=day)
         t = stage("matching", t)
         succ, pred = matching.succ, matching.pred
         if least_deadhead and index.m:
-            best = least_cost_links(class_costs(day, index), initial=succ)
+            costs = class_costs(day, index)
+            best = least_cost_links(costs, initial=succ)
             if best.links != matching.size:
                 raise RuntimeError("least-deadhead plan lost the minimum fleet")
             succ = best.succ
+            if tradeoff > 0:
+                curve = tradeoff_curve(costs, best, tradeoff)
+                savings.extend(a - b for a, b in zip(curve, curve[1:]))
             pred = np.full(index.m, -1, dtype=np.int64)
             pred[succ[succ >= 0]] = np.flatnonzero(succ >= 0)
             t = stage("least deadhead", t)
@@ -77,7 +85,26 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Fal
     total, per_route = plan_deadhead(day, routes)
     return Plan(day, tuple(routes), tuple(certificate), not failures, timings, kernel,
                 deadhead_seconds=total, route_deadhead_seconds=per_route,
+                tradeoff=_merge_tradeoff(len(routes), total, savings, tradeoff),
                 verification_failures=tuple(failures))
+
+
+def _merge_tradeoff(vehicles: int, deadhead: int, savings: list[int],
+                    extra: int) -> tuple[tuple[int, int], ...]:
+    """Least empty driving with at most vehicles + t vehicles, t = 0..extra.
+
+    Each class's saving per extra vehicle does not grow (its cost curve is
+    convex), so taking the largest savings over all classes first is optimal;
+    a saving that is not positive is not taken ("at most" k vehicles).
+    """
+    if extra <= 0:
+        return ()
+    best = sorted((s for s in savings if s > 0), reverse=True)
+    points = [(vehicles, deadhead)]
+    for t in range(1, extra + 1):
+        deadhead -= best[t - 1] if t - 1 < len(best) else 0
+        points.append((vehicles + t, deadhead))
+    return tuple(points)
 
 
 def _chains(jobs: np.ndarray, succ: np.ndarray, pred: np.ndarray) -> list[tuple[int, ...]]:

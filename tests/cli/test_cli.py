@@ -133,3 +133,20 @@ def test_pdf_and_json_written_together(tmp_path, capsys):
     text = "".join(page.extract_text() for page in PdfReader(pdf).pages)
     assert f"Vehicle {vehicles}" in text and "local law" in text
     assert sorted(p.name for p in tmp_path.iterdir()) == ["plan.json", "plan.pdf"]
+
+
+def test_least_deadhead_tradeoff_and_cost_model(tmp_path, capsys):
+    bare, least = tmp_path / "bare.json", tmp_path / "least.json"
+    assert main(["demo", "--json", str(bare)]) == 0
+    assert main(["demo", "--least-deadhead", "--tradeoff", "3", "--vehicle-cost", "300",
+                 "--empty-hour-cost", "40", "--json", str(least)]) == 0
+    a, b = json.loads(bare.read_text()), json.loads(least.read_text())
+    assert a["vehicles"] == b["vehicles"] and b["verified"]
+    assert b["deadhead_minutes"] <= a["deadhead_minutes"]
+    curve = b["tradeoff"]
+    assert [p["vehicles"] for p in curve] == [b["vehicles"] + t for t in range(4)]
+    assert curve[0]["deadhead_minutes"] == b["deadhead_minutes"]
+    assert all(p["deadhead_minutes"] >= q["deadhead_minutes"] for p, q in zip(curve, curve[1:]))
+    costs = {c["vehicles"]: c["cost"] for c in b["cost_model"]["costs"]}
+    assert costs[b["cost_model"]["cheapest_vehicles"]] == min(costs.values())
+    assert "Cheapest fleet" in capsys.readouterr().out

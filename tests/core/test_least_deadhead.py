@@ -106,3 +106,25 @@ def test_depot_pull_out_and_pull_in_counted():
     travel = {("D", "X"): (600, 0), ("X", "D"): (900, 0)}
     day = build_day(jobs, [], travel, settings=Settings(depot="D"))
     assert solve_day(day, least_deadhead=True).deadhead_seconds == 1500
+
+
+@pytest.mark.parametrize("seed", range(15))
+def test_plan_tradeoff_by_brute_force_over_classes(seed):
+    # Brute force over every chain cover (any size) of a small two-class day:
+    # least empty driving with at most k vehicles, for k = minimum .. minimum + 3.
+    rng = np.random.default_rng(900 + seed)
+    day = random_day(int(rng.integers(2, 8)), 3, seed=seed, classes=2)
+    plan = solve_day(day, least_deadhead=True, tradeoff=3)
+    follows = can_follow_matrix(day).toarray()
+    best: dict[int, int] = {}
+    for succ in itertools.product(*[[-1, *np.flatnonzero(follows[i])] for i in range(day.n)]):
+        targets = [s for s in succ if s >= 0]
+        if len(targets) != len(set(targets)):
+            continue
+        vehicles = day.n - len(targets)
+        dead = sum(int(day.travel[day.destination[i], day.origin[j]])
+                   for i, j in enumerate(succ) if j >= 0)
+        best[vehicles] = min(best.get(vehicles, dead), dead)
+    assert plan.tradeoff[0] == (plan.vehicles, plan.deadhead_seconds)
+    for vehicles, dead in plan.tradeoff:
+        assert dead == min(v for k, v in best.items() if k <= vehicles)
