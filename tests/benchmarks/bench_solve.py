@@ -78,6 +78,46 @@ def in_child(func: str, n: int, timeout: float) -> dict | None:
     return json.loads(out.stdout.strip().splitlines()[-1])
 
 
+def least_deadhead_size(n: int) -> dict:
+    """The least-empty-driving plan (opt-in) for one size."""
+    from shipgui.core import solve_day
+    from tests.support.days import regional_day
+    solve_day(regional_day(50, 5), least_deadhead=True)
+    day = regional_day(n, SITES.get(n, 200), seed=n)
+    t = time.perf_counter()
+    plan = solve_day(day, least_deadhead=True)
+    total = time.perf_counter() - t
+    bare = solve_day(day)
+    return {"n": n, "total_s": total, "vehicles": plan.vehicles,
+            "deadhead_min": plan.deadhead_seconds / 60, "bare_min": bare.deadhead_seconds / 60,
+            "peak_mb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024}
+
+
+def straightforward_assignment(n: int) -> dict:
+    """scipy min_weight_full_bipartite_matching on all compatible pairs."""
+    import numpy as np
+    import scipy.sparse as sp
+    from scipy.sparse.csgraph import min_weight_full_bipartite_matching
+
+    from shipgui.core import can_follow_matrix
+    from tests.support.days import regional_day
+    day = regional_day(n, SITES.get(n, 200), seed=n)
+    t = time.perf_counter()
+    m = can_follow_matrix(day).tocoo()
+    w = day.travel[day.destination[m.row], day.origin[m.col]].astype(float) + 1
+    big = float(w.max() * n + 1)
+    rows = np.concatenate([m.row, np.arange(n)])
+    cols = np.concatenate([m.col, n + np.arange(n)])
+    data = np.concatenate([w, np.full(n, big)])
+    graph = sp.csr_matrix((data, (rows, cols)), shape=(n, 2 * n))
+    r, c = min_weight_full_bipartite_matching(graph)
+    links = c < n
+    dead = day.travel[day.destination[r[links]], day.origin[c[links]]].sum()
+    return {"n": n, "total_s": time.perf_counter() - t, "vehicles": int(n - links.sum()),
+            "deadhead_min": float(dead) / 60,
+            "peak_mb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024}
+
+
 def whole_process(n: int = 10000) -> float:
     from tests.support.days import regional_day
     day = regional_day(n, SITES[n], seed=n)
@@ -109,7 +149,12 @@ def main() -> None:
     ap.add_argument("--sizes", type=int, nargs="*", default=[1000, 10000, 20000, 50000])
     ap.add_argument("--no-networkx", action="store_true")
     ap.add_argument("--networkx-timeout", type=float, default=900)
+    ap.add_argument("--least-deadhead", type=int, nargs="*", default=None, metavar="N",
+                    help="only benchmark the least-empty-driving plan at these sizes")
     args = ap.parse_args()
+    if args.least_deadhead is not None:
+        bench_least_deadhead(args.least_deadhead or [1000, 10000, 20000])
+        return
     print(f"{'jobs':>6} {'sites':>5} {'vehicles':>8} {'relation':>9} {'matching':>9} "
           f"{'routes':>7} {'verify':>7} {'total s':>8} {'peak MB':>8}  kernel")
     results = {}
@@ -135,6 +180,21 @@ def main() -> None:
                   f"{ours['total_s']:.4f} s, ratio {ref['total_s'] / ours['total_s']:.0f}x "
                   f"(both {ours['vehicles']} vehicles)", flush=True)
     print(f"\nwhole `shipgui solve` process, 10 000 jobs: {whole_process():.2f} s")
+
+
+def bench_least_deadhead(sizes: list[int]) -> None:
+    print(f"{'jobs':>6} {'ours s':>8} {'peak MB':>8} {'assign-all s':>13} {'peak MB':>8} "
+          f"{'vehicles':>8} {'deadhead h':>10} {'bare h':>8}")
+    for n in sizes:
+        ours = in_child("least_deadhead_size", n, 3600)
+        ref = in_child("straightforward_assignment", n, 600) if n <= 10000 else None
+        ref_s = f"{ref['total_s']:>13.2f} {ref['peak_mb']:>8.0f}" if ref else f"{'-':>13} {'-':>8}"
+        if ref:
+            assert abs(ref["deadhead_min"] - ours["deadhead_min"]) < 1e-6
+            assert ref["vehicles"] == ours["vehicles"]
+        print(f"{n:>6} {ours['total_s']:>8.2f} {ours['peak_mb']:>8.0f} {ref_s} "
+              f"{ours['vehicles']:>8} {ours['deadhead_min'] / 60:>10.1f} "
+              f"{ours['bare_min'] / 60:>8.1f}", flush=True)
 
 
 if __name__ == "__main__":
