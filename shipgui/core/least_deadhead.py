@@ -41,6 +41,9 @@ from .precedence import PrefixIndex
 __all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution", "tradeoff_curve"]
 
 _CANDIDATES_PER_JOB = 8
+# Up to this many compatible pairs, all of them are candidates from the start:
+# one assignment solve, no pricing rounds (faster on small and medium days).
+_ALL_PAIRS_LIMIT = 1_500_000
 _MAX_ROUNDS = 200
 _PRICED_PER_JOB = 3
 
@@ -127,7 +130,10 @@ def least_cost_links(costs: ClassCosts, *, penalty: tuple[int, int] | None = Non
         end_weight = int(penalty[0]) + scale * (1 - cmin)
         if end_weight < 1:  # every link costs more than a vehicle: no links at all
             return LinkSolution(np.full(m, -1, dtype=np.int64), 0, 0, 0)
-    cand = _initial_candidates(index, weight, valid, initial)
+    if index.edge_count() <= _ALL_PAIRS_LIMIT:
+        cand = _all_pairs(index)
+    else:
+        cand = _initial_candidates(index, weight, valid, initial)
     rounds = 0
     while rounds < _MAX_ROUNDS:
         rounds += 1
@@ -145,6 +151,17 @@ def least_cost_links(costs: ClassCosts, *, penalty: tuple[int, int] | None = Non
     linked = np.flatnonzero(succ >= 0)
     link_cost = int(costs.cost[succ[linked], costs.group_of[linked]].sum())
     return LinkSolution(succ, len(linked), link_cost, rounds)
+
+
+def _all_pairs(index: PrefixIndex) -> np.ndarray:
+    """Every compatible (i, j) as keys i * m + j, expanded from the prefixes."""
+    m = index.m
+    js, gs = np.nonzero(index.latest >= 0)
+    first = index.group_start[gs]
+    counts = index.latest[js, gs].astype(np.int64) - first + 1
+    offsets = np.arange(counts.sum()) - np.repeat(np.cumsum(counts) - counts, counts)
+    positions = np.repeat(first, counts) + offsets
+    return np.sort(index.order[positions] * m + np.repeat(js, counts))
 
 
 def _initial_candidates(index: PrefixIndex, weight, valid, initial) -> np.ndarray:

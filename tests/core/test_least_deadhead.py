@@ -41,8 +41,13 @@ def _one_class(seed, depot=False):
                       settings=settings)
 
 
+@pytest.mark.parametrize("pricing", [False, True], ids=["all-pairs", "column-generation"])
 @pytest.mark.parametrize("seed", range(110))
-def test_least_cost_equals_networkx_min_cost_flow(seed):
+def test_least_cost_equals_networkx_min_cost_flow(seed, pricing, monkeypatch):
+    # Both ways of choosing candidates: all pairs at once, or pricing rounds.
+    import shipgui.core.least_deadhead as least
+    if pricing:
+        monkeypatch.setattr(least, "_ALL_PAIRS_LIMIT", 0)
     day = _one_class(seed, depot=seed % 2 == 1)
     index = class_indexes(day)[0]
     costs = class_costs(day, index)
