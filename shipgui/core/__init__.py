@@ -1,5 +1,6 @@
 """The planning model and algorithms.  Imports only the standard library, numpy,
-scipy and networkx (never Qt or reportlab), so it runs headless."""
+scipy and networkx (never Qt or reportlab), so it runs headless; openpyxl is
+imported only when a spreadsheet is read or written."""
 
 from .clock import format_clock, format_minutes, parse_clock, parse_minutes
 from .errors import InputError, InputErrors, PlanNotVerified, Problem

@@ -6,7 +6,7 @@ import os
 import tempfile
 from pathlib import Path
 
-__all__ = ["write_bytes_atomic", "write_text_atomic"]
+__all__ = ["write_bytes_atomic", "write_text_atomic", "fsync_directory"]
 
 
 def write_bytes_atomic(path: str | Path, data: bytes) -> None:
@@ -25,8 +25,13 @@ def write_bytes_atomic(path: str | Path, data: bytes) -> None:
         except OSError:
             pass
         raise
-    try:  # make the rename itself durable
-        dir_fd = os.open(path.parent, os.O_RDONLY)
+    fsync_directory(path.parent)
+
+
+def fsync_directory(folder: str | Path) -> None:
+    """Make a rename in ``folder`` durable (a no-op where folders cannot be synced)."""
+    try:
+        dir_fd = os.open(folder, os.O_RDONLY)
     except OSError:
         return
     try:

@@ -10,23 +10,33 @@ from __future__ import annotations
 import hashlib
 import math
 import unicodedata
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from datetime import date
 from pathlib import Path
 
 import numpy as np
 
-from .clock import ClockValue, format_minutes, parse_clock, parse_minutes, resolve_clock
+from .clock import (
+    MAX_HOURS,
+    ClockValue,
+    format_minutes,
+    parse_clock,
+    parse_minutes,
+    resolve_clock,
+)
 from .errors import InputError, InputErrors, Problem
 from .model import Day, Job, Settings, Site
 from .tables import Table, read_table
 from .travel import close_travel, estimate_seconds, haversine_km
 
 __all__ = ["read_jobs", "read_sites", "read_travel", "build_day", "load_day",
-           "MAX_PROBLEMS"]
+           "MAX_PROBLEMS", "MAX_SITES"]
 
 MAX_PROBLEMS = 50
+# The travel closure is cubic in the number of sites: 2 000 sites take about
+# ten seconds, far beyond any regional day; more is a broken file.
+MAX_SITES = 2_000
 DEFAULT_SETTINGS = Settings()
 
 
@@ -56,15 +66,28 @@ def _has_control(text: str) -> bool:
 def _require(table: Table, columns: Iterable[str], what: str) -> None:
     missing = [c for c in columns if not table.has(c)]
     if missing:
-        raise InputError(f"the {what} file needs a column '{missing[0]}' in its header "
-                         f"(it has: {', '.join(c for c in table.columns if c) or 'none'})",
+        names = ", ".join(f"'{c}'" for c in missing)
+        has = ", ".join(c for c in table.columns if c and not _has_control(c))
+        raise InputError(f"the {what} file needs the column{'s' if len(missing) > 1 else ''} "
+                         f"{names} in its header row (it has: {has or 'none'})",
                          file=table.path, row=1, column=missing[0])
 
 
-def _cells(table: Table, issues: _Collector, optional: Iterable[str] = ()):
+def _table(path: str | Path, *, sheet: str | None, delimiter: str | None,
+           minutes_columns: Iterable[str] = ()) -> Table:
+    return read_table(path, sheet=sheet, delimiter=delimiter, minutes_columns=minutes_columns)
+
+
+def _cells(table: Table, issues: _Collector):
     """Yield (row number, {column: value}) with control characters rejected."""
     wanted = [c for c in table.columns if c]
+    unreadable = set()
+    for p in table.problems:  # cells a workbook could not give a value for
+        issues.add(p.message, p.file, p.row, p.column)
+        unreadable.add(p.row)
     for number, values in table.rows:
+        if number in unreadable:
+            continue
         record = dict(zip(table.columns, values))
         bad = [c for c in wanted if _has_control(record[c])]
         for column in bad:
@@ -85,10 +108,11 @@ class _RawJob:
     duration: int | None = None
 
 
-def read_jobs(path: str | Path) -> tuple[list[Job], date | None]:
-    """Read and check the jobs file; returns the jobs and the plan date if the
-    file used date-times (else ``None``)."""
-    table = read_table(path)
+def read_jobs(path: str | Path, *, sheet: str | None = None,
+              delimiter: str | None = None) -> tuple[list[Job], date | None]:
+    """Read and check the jobs file (CSV, or a sheet of an XLSX workbook); returns
+    the jobs and the plan date if the file used date-times (else ``None``)."""
+    table = _table(path, sheet=sheet, delimiter=delimiter, minutes_columns=("duration",))
     _require(table, ("job", "origin", "start"), "jobs")
     if not (table.has("end") or table.has("duration")):
         raise InputError("the jobs file needs a column 'end' or a column 'duration'",
@@ -106,7 +130,10 @@ def read_jobs(path: str | Path) -> tuple[list[Job], date | None]:
             seen[job_id] = number
         raws.append(_parse_job_row(table, number, record, issues))
     raws = [r for r in raws if r is not None]
+    found = len(issues.problems)
     plan_date = _plan_date(table, raws, issues)
+    if len(issues.problems) > found or issues.more:  # no plan date: times cannot be resolved
+        issues.raise_if_any()
     jobs = [job for job in (_finish_job(table, raw, plan_date, issues) for raw in raws)
             if job is not None]
     if not jobs and not issues.problems:
@@ -158,7 +185,12 @@ def _plan_date(table: Table, raws: list[_RawJob], issues: _Collector) -> date | 
     if aware:
         zone = aware[0].tzinfo
         for raw, col, m in moments:
-            getattr(raw, col).moment = m.astimezone(zone)
+            try:
+                getattr(raw, col).moment = m.astimezone(zone)
+            except OverflowError:
+                issues.add("the date-time is out of the calendar's range once converted to "
+                           "the file's time zone", table.path, raw.row, col)
+                return None
     return min(getattr(raw, col).moment.date() for raw, col, _ in moments)
 
 
@@ -173,6 +205,13 @@ def _finish_job(table: Table, raw: _RawJob, plan_date: date | None,
         return None
     if end is None:
         end = start + raw.duration  # type: ignore[operator]
+    for column, value in (("start", start), ("end", end)):
+        if abs(value) > MAX_HOURS * 3600:  # e.g. a date-time typed with the wrong year
+            given = rec.get(column) or f"{rec.get('duration')} min after the start"
+            issues.add(f"the job's {column} ({given}) is more than {MAX_HOURS} hours after the "
+                       "plan day's midnight; a plan covers one day and the night after",
+                       table.path, raw.row, column if rec.get(column) else "duration")
+            return None
     if end <= start:
         hint = (" (a job past midnight ends at 24:00 or later, e.g. 25:30)"
                 if raw.end is not None and raw.end.moment is None else "")
@@ -196,9 +235,10 @@ def _float(text: str, low: float, high: float) -> float:
     return value
 
 
-def read_sites(path: str | Path) -> list[Site]:
-    """Read and check the sites file."""
-    table = read_table(path)
+def read_sites(path: str | Path, *, sheet: str | None = None,
+               delimiter: str | None = None) -> list[Site]:
+    """Read and check the sites file (CSV, or a sheet of an XLSX workbook)."""
+    table = _table(path, sheet=sheet, delimiter=delimiter)
     _require(table, ("site",), "sites")
     issues = _Collector()
     sites: list[Site] = []
@@ -236,9 +276,10 @@ def read_sites(path: str | Path) -> list[Site]:
 
 # --------------------------------------------------------------------- travel
 
-def read_travel(path: str | Path) -> dict[tuple[str, str], tuple[int, int]]:
-    """Read the travel file: (from, to) -> (seconds rounded up, row)."""
-    table = read_table(path)
+def read_travel(path: str | Path, *, sheet: str | None = None,
+                delimiter: str | None = None) -> dict[tuple[str, str], tuple[int, int]]:
+    """Read the travel file (CSV or XLSX): (from, to) -> (seconds rounded up, row)."""
+    table = _table(path, sheet=sheet, delimiter=delimiter, minutes_columns=("minutes",))
     _require(table, ("from", "to", "minutes"), "travel")
     issues = _Collector()
     pairs: dict[tuple[str, str], tuple[int, int]] = {}
@@ -270,11 +311,23 @@ def read_travel(path: str | Path) -> dict[tuple[str, str], tuple[int, int]]:
 
 def load_day(jobs_path: str | Path, sites_path: str | Path | None = None,
              travel_path: str | Path | None = None, *,
-             settings: Settings = DEFAULT_SETTINGS) -> Day:
-    """Read the files and build a validated day (see :func:`build_day`)."""
-    jobs, plan_date = read_jobs(jobs_path)
-    sites = read_sites(sites_path) if sites_path else []
-    travel = read_travel(travel_path) if travel_path else {}
+             settings: Settings = DEFAULT_SETTINGS, sheets: Mapping[str, str] | None = None,
+             delimiter: str | None = None) -> Day:
+    """Read the files and build a validated day (see :func:`build_day`).
+
+    ``sheets`` picks a sheet per workbook by file kind ("jobs", "sites",
+    "travel"; default the first sheet); ``delimiter`` overrides the CSV
+    delimiter detected on each header.
+    """
+    sheets = dict(sheets or {})
+    unknown = set(sheets) - {"jobs", "sites", "travel"}
+    if unknown:
+        raise ValueError(f"unknown file kind(s) for sheets: {sorted(unknown)}")
+    jobs, plan_date = read_jobs(jobs_path, sheet=sheets.get("jobs"), delimiter=delimiter)
+    sites = (read_sites(sites_path, sheet=sheets.get("sites"), delimiter=delimiter)
+             if sites_path else [])
+    travel = (read_travel(travel_path, sheet=sheets.get("travel"), delimiter=delimiter)
+              if travel_path else {})
     sources = {"jobs": str(jobs_path)}
     if sites_path:
         sources["sites"] = str(sites_path)
@@ -296,6 +349,11 @@ def build_day(jobs: list[Job], sites: list[Site],
     by_id = {s.id: s for s in sites}
     used = _used_sites(jobs, settings)
     site_ids = _site_order(sites, travel, used)
+    if len(site_ids) > MAX_SITES:
+        raise InputError(f"the day names {len(site_ids)} different sites; more than "
+                         f"{MAX_SITES} is not a regional day (check the site columns)",
+                         file=sources.get("sites") or sources.get("travel")
+                         or sources.get("jobs"))
     matrix, estimated = _travel_matrix(site_ids, by_id, travel, used, settings, sources)
     try:
         closed, shortened = close_travel(matrix)

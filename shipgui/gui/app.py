@@ -35,12 +35,14 @@ def make_application() -> QApplication:
 
 
 def open_window(files: list[str], *, demo: bool,
-                settings: AppSettings | None = None) -> MainWindow:
-    """A main window showing the demo day, the given files, or nothing yet."""
+                settings: AppSettings | None = None, recover: bool = True) -> MainWindow:
+    """A main window showing recovered work, the demo day, the given files, or nothing yet."""
     window = MainWindow(settings)
     geometry = window.settings.get("window/geometry")
     if not geometry.isEmpty():
         window.restoreGeometry(geometry)
+    if recover and window.offer_recovery():
+        return window
     if demo:
         window.files.open_demo()
     elif files:
@@ -84,7 +86,8 @@ def run(argv_files: list[str], *, demo: bool = False, screenshot: str | None = N
     if screenshot and QApplication.instance() is None:
         os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
     app = make_application()
-    window = open_window(list(argv_files), demo=demo, settings=settings)
+    window = open_window(list(argv_files), demo=demo, settings=settings,
+                         recover=not screenshot)
     if screenshot:
         window.resize(1400, 820)
         finished = wait_for_plan(window)

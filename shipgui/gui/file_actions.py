@@ -13,6 +13,7 @@ from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QStyle
 
 from shipgui.core import InputError, Problem, Settings, read_sites, read_travel
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
+from shipgui.core.routes_export import write_routes
 
 from . import plan_file
 from .commands import AttachSites, AttachTravel
@@ -26,6 +27,7 @@ __all__ = ["FileActions", "find_pdf_writer", "OPEN_FILTER"]
 OPEN_FILTER = ("Days (*.shipgui *.csv);;Plan documents (*.shipgui);;Jobs, sites or travel "
                "(*.csv);;All files (*)")
 PLAN_FILTER = "Plan documents (*.shipgui)"
+ROUTES_FILTERS = {"CSV for spreadsheets (*.csv)": ".csv", "Excel workbook (*.xlsx)": ".xlsx"}
 DROPPABLE = {".csv", ".shipgui", ".json"}
 
 
@@ -70,12 +72,14 @@ class FileActions(QObject):
         self.export_json_action = action("Export plan JSON…", self.export_json)
         self.export_pdf_action = (action("Export PDF…", self.export_pdf)
                                   if self.pdf_writer is not None else None)
+        self.export_routes_action = action("Export routes (CSV/XLSX)…", self.export_routes)
         self.quit_action = action("Quit", window.close, QKeySequence.StandardKey.Quit)
         self.recent_menu = QMenu("Open recent", window)
         self.recent_menu.aboutToShow.connect(self._fill_recent)
 
     def export_actions(self) -> list[QAction]:
-        return [a for a in (self.export_json_action, self.export_pdf_action) if a is not None]
+        return [a for a in (self.export_json_action, self.export_pdf_action,
+                            self.export_routes_action) if a is not None]
 
     def fill_file_menu(self, menu: QMenu) -> None:
         for a in (self.open_action, self.recent_menu, self.demo_action, None, self.save_action,
@@ -240,6 +244,7 @@ class FileActions(QObject):
             return False
         doc.path = path
         self.window.undo_stack.setClean()
+        self.window.autosaver.discard()  # also when the stack was clean already (recovered)
         self.window.update_title()
         self.settings.add_recent_file(path)
         self._remember(path)
@@ -279,6 +284,28 @@ class FileActions(QObject):
             return False
         try:
             plan_file.write_plan_json(plan, path, self.window.document.driver_names)
+        except OSError as exc:
+            QMessageBox.warning(self.window, "Not exported", str(exc))
+            return False
+        self.window.statusBar().showMessage(f"Exported {path.name}", 5000)
+        return True
+
+    def export_routes(self) -> bool:
+        """One row per job with vehicle and sequence, for a spreadsheet."""
+        plan = self.window.plan
+        if plan is None or not self.window.plan_is_current:
+            return False
+        stem = Path(self.window.document.title).stem
+        path, chosen = QFileDialog.getSaveFileName(
+            self.window, "Export routes for a spreadsheet",
+            str(Path(self._directory()) / f"{stem}-routes.csv"), ";;".join(ROUTES_FILTERS))
+        if not path:
+            return False
+        path = Path(path)
+        if path.suffix.lower() not in (".csv", ".xlsx"):
+            path = path.with_name(path.name + ROUTES_FILTERS.get(chosen, ".csv"))
+        try:
+            write_routes(plan, path, dict(self.window.document.driver_names))
         except OSError as exc:
             QMessageBox.warning(self.window, "Not exported", str(exc))
             return False

@@ -19,6 +19,7 @@ from PySide6.QtWidgets import (
 from shipgui.core import Job, Plan, Problem
 
 from .answer_bar import AnswerBar
+from .autosave import Autosaver, find_recoveries
 from .certificate_panel import CertificatePanel
 from .commands import AddJob, ChangeSettings, DeleteJobs
 from .document import Change, PlanDocument
@@ -55,6 +56,8 @@ class MainWindow(QMainWindow):
         self._make_actions()
         self.jobs_model = JobsModel(self.document, self.undo_stack, self)
         self.files = FileActions(self)
+        self.autosaver = Autosaver(self.document, lambda: not self.undo_stack.isClean(),
+                                   self.settings.data_directory(), self)
         self._make_panels()
         self._make_menus()
         self._connect()
@@ -193,6 +196,8 @@ class MainWindow(QMainWindow):
     def _connect(self) -> None:
         self.document.subscribe(self._on_document_change)
         self.undo_stack.cleanChanged.connect(lambda _clean: self.update_title())
+        self.undo_stack.cleanChanged.connect(
+            lambda clean: self.autosaver.discard() if clean else None)
         self.jobs_model.edit_refused.connect(self._refuse)
         self.inputs_panel.settings_refused.connect(self._refuse)
         self.inputs_panel.settings_edited.connect(
@@ -223,6 +228,37 @@ class MainWindow(QMainWindow):
         self.undo_stack.clear()
         self.undo_stack.setClean()
         self.update_title()
+
+    def offer_recovery(self) -> bool:
+        """Offer back work a crashed window autosaved; True if a day was recovered.
+
+        Recover opens it here, with its changes still unsaved; Discard deletes
+        it; Later keeps it for the next start.
+        """
+        recovered = False
+        buttons = QMessageBox.StandardButton
+        for found in find_recoveries(self.settings.data_directory()):
+            if recovered:
+                found.lock.unlock()  # one day per window; the rest wait for the next start
+                continue
+            answer = QMessageBox.question(
+                self, "Recover unsaved work?",
+                f"shipgui did not close properly. Unsaved work on {found.document.title} "
+                f"was kept (autosaved {found.saved_at.replace('T', ' ')}). Recover it?",
+                buttons.Yes | buttons.Discard | buttons.Cancel, buttons.Yes)
+            if answer == buttons.Yes:
+                self.load_document(found.document)
+                self.document.path = found.document.path
+                self.undo_stack.resetClean()  # recovered work is not saved yet
+                self.update_title()
+                self.autosaver.autosave()  # this window now keeps it safe
+                found.discard()
+                recovered = True
+            elif answer == buttons.Discard:
+                found.discard()
+            else:
+                found.lock.unlock()
+        return recovered
 
     def request_solve(self) -> None:
         self.plan_is_current = False
@@ -367,6 +403,7 @@ class MainWindow(QMainWindow):
             event.ignore()
             return
         self.solver.cancel()
+        self.autosaver.stop()
         self.settings.set("window/geometry", self.saveGeometry())
         self.settings.sync()
         event.accept()

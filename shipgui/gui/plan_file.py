@@ -13,6 +13,8 @@ from __future__ import annotations
 
 import csv
 import json
+import math
+import stat
 from datetime import date
 from pathlib import Path
 
@@ -32,6 +34,7 @@ from shipgui.core import (
     read_sites,
     read_travel,
 )
+from shipgui.core.files import fsync_directory
 
 from .document import PlanDocument
 
@@ -43,11 +46,17 @@ __all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "document_to_json",
 FORMAT = "shipgui-plan"
 SCHEMA_VERSION = 1
 PLAN_SUFFIX = ".shipgui"
+MAX_PLAN_BYTES = 64 * 1024 * 1024  # a 200 000-job day is about 40 MB of JSON
 
 
 # ------------------------------------------------------------------ writing
 def write_file_safely(path: str | Path, data: bytes) -> None:
-    """Write all of ``data`` or nothing; raises OSError with the reason."""
+    """Write all of ``data`` or nothing; raises OSError with the reason.
+
+    QSaveFile writes a temporary file in the same folder, flushes and syncs
+    it, and renames it over ``path`` on commit; syncing the folder afterwards
+    makes the rename itself survive a power cut.
+    """
     out = QSaveFile(str(path))
     if not out.open(QIODevice.OpenModeFlag.WriteOnly):
         raise OSError(f"cannot write {path}: {out.errorString()}")
@@ -56,6 +65,7 @@ def write_file_safely(path: str | Path, data: bytes) -> None:
         raise OSError(f"cannot write {path}: {out.errorString()}")
     if not out.commit():
         raise OSError(f"cannot write {path}: {out.errorString()}")
+    fsync_directory(Path(path).resolve().parent)
 
 
 def _clock_or_none(seconds: int | None) -> str | None:
@@ -149,11 +159,13 @@ class _Reader:
             self.add(f"'{value}' should be a clock time HH:MM", row, key)
         return parsed.seconds
 
-    def number(self, value, row: int | None, key: str, *, optional: bool = True):
+    def number(self, value, row: int | None, key: str, *, optional: bool = True,
+               low: float = -1e9, high: float = 1e9):
         if value is None and optional:
             return None
-        if isinstance(value, bool) or not isinstance(value, int | float):
-            self.add(f"'{key}' should be a number", row, key)
+        if isinstance(value, bool) or not isinstance(value, int | float) \
+                or not math.isfinite(value) or not low <= value <= high:
+            self.add(f"'{key}' should be a number between {low:g} and {high:g}", row, key)
             return None
         return value
 
@@ -190,7 +202,8 @@ def _read_sites(reader: _Reader, records: list[dict]) -> list[Site]:
     sites = []
     for row, r in enumerate(records, start=1):
         site_id = reader.text(r, "site", row, required=True)
-        coords = {k: reader.number(r.get(k), row, k) for k in ("lat", "lon", "x_km", "y_km")}
+        coords = {k: reader.number(r.get(k), row, k, low=-limit, high=limit)
+                  for k, limit in (("lat", 90), ("lon", 180), ("x_km", 1e5), ("y_km", 1e5))}
         sites.append(Site(site_id, reader.text(r, "name", row), reader.text(r, "address", row),
                           **coords))
     return sites
@@ -202,7 +215,8 @@ def _read_travel(reader: _Reader, records: list[dict]) -> dict:
         a = reader.text(r, "from", row, required=True)
         b = reader.text(r, "to", row, required=True)
         seconds = r.get("seconds")
-        if isinstance(seconds, bool) or not isinstance(seconds, int) or seconds < 0:
+        if isinstance(seconds, bool) or not isinstance(seconds, int) \
+                or not 0 <= seconds <= 100_000 * 60:
             reader.add("'seconds' should be a whole number, zero or more", row, "seconds")
             continue
         travel[(a, b)] = (seconds, row)
@@ -214,11 +228,11 @@ def _read_settings(reader: _Reader, raw: dict) -> Settings:
         reader.add("'settings' should be a record", None, "settings")
         return Settings()
     turnaround = reader.number(raw.get("turnaround_seconds", 0), None, "turnaround_seconds",
-                               optional=False)
+                               optional=False, low=0, high=24 * 3600)
     day = {k: None if raw.get(k) is None else reader.clock(raw[k], None, k)
            for k in ("day_start", "day_end")}
-    speed = reader.number(raw.get("speed_kmh"), None, "speed_kmh")
-    circuity = reader.number(raw.get("circuity"), None, "circuity")
+    speed = reader.number(raw.get("speed_kmh"), None, "speed_kmh", low=0.1, high=1000)
+    circuity = reader.number(raw.get("circuity"), None, "circuity", low=1, high=100)
     defaults = Settings()
     depot = raw.get("depot") or None
     return Settings(turnaround=int(turnaround or 0),
@@ -234,16 +248,15 @@ def document_from_json(data, path: str) -> PlanDocument:
         hint = (" It looks like an exported plan; open the plan document (.shipgui) or "
                 "the jobs CSV instead." if isinstance(data, dict) and "routes" in data else "")
         raise InputError(f"this is not a shipgui plan document.{hint}", file=path)
-    if data.get("schema_version") != SCHEMA_VERSION:
-        raise InputError(f"plan document version {data.get('schema_version')!r} is not "
-                         f"supported (this program reads version {SCHEMA_VERSION})", file=path)
+    _check_version(data.get("schema_version"), path)
     inputs = data.get("inputs") if isinstance(data.get("inputs"), dict) else {}
     jobs = _read_jobs(reader, _records(reader, inputs, "jobs"))
     sites = _read_sites(reader, _records(reader, inputs, "sites"))
     travel = _read_travel(reader, _records(reader, inputs, "travel"))
     settings = _read_settings(reader, data.get("settings", {}))
     names = data.get("driver_names", {})
-    drivers = ({int(k): str(v) for k, v in names.items() if str(k).isdigit()}
+    drivers = ({int(k): str(v) for k, v in names.items()
+                if str(k).isascii() and str(k).isdigit() and len(str(k)) < 7}
                if isinstance(names, dict) else {})
     plan_date = None
     if data.get("plan_date"):
@@ -255,21 +268,56 @@ def document_from_json(data, path: str) -> PlanDocument:
         reader.add("the plan document has no jobs")
     if reader.problems:
         raise InputErrors(reader.problems)
-    sources = {k: str(v) for k, v in (data.get("sources") or {}).items()}
+    raw_sources = data.get("sources")
+    sources = ({str(k): str(v) for k, v in raw_sources.items()}
+               if isinstance(raw_sources, dict) else {})
     return PlanDocument(jobs, sites, travel, settings, plan_date, sources, drivers,
                         Path(path))
 
 
-def open_document(path: str | Path) -> PlanDocument:
+def _check_version(version, path: str) -> None:
+    """A clear word for plans from a newer shipgui, and for damaged version fields."""
+    if isinstance(version, bool) or not isinstance(version, int):
+        raise InputError(f"the plan document is damaged: its format version {version!r} is "
+                         "not a whole number", file=path)
+    if version > SCHEMA_VERSION:
+        raise InputError(f"this plan was saved by a newer version of shipgui (plan format "
+                         f"version {version}; this program reads up to version "
+                         f"{SCHEMA_VERSION}). Update shipgui to open it; the file was not "
+                         "changed.", file=path)
+    if version < 1:
+        raise InputError(f"plan document version {version} is not supported (this program "
+                         f"reads versions 1 to {SCHEMA_VERSION})", file=path)
+
+
+def read_document_json(path: str | Path):
+    """The parsed JSON of a plan document (never pickle, never eval); InputError if the
+    file cannot be read or is not JSON."""
     path = Path(path)
     try:
-        data = json.loads(path.read_text(encoding="utf-8"))
+        info = path.stat()
+        if not stat.S_ISREG(info.st_mode):
+            raise InputError("this is not an ordinary file", file=str(path))
+        if info.st_size > MAX_PLAN_BYTES:
+            raise InputError(f"the file is {info.st_size // (1024 * 1024)} MB; a plan document "
+                             "is never that big", file=str(path))
+        text = path.read_bytes()[:MAX_PLAN_BYTES + 1].decode("utf-8")
+    except InputError:
+        raise
     except (OSError, UnicodeDecodeError) as exc:
         raise InputError(f"cannot read the file: {exc}", file=str(path)) from None
+    try:
+        return json.loads(text)
     except json.JSONDecodeError as exc:
         raise InputError(f"the plan document is damaged (not valid JSON: {exc.msg})",
                          file=str(path), row=exc.lineno) from None
-    return document_from_json(data, str(path))
+    except (ValueError, RecursionError):  # absurd numbers or nesting
+        raise InputError("the plan document is damaged (not a plan's JSON)",
+                         file=str(path)) from None
+
+
+def open_document(path: str | Path) -> PlanDocument:
+    return document_from_json(read_document_json(path), str(path))
 
 
 def open_inputs(jobs: str | Path, sites: str | Path | None = None,

@@ -29,13 +29,24 @@ DEFAULTS: dict[str, object] = {
 class AppSettings:
     """Typed access to the preferences; ``store`` defaults to the user's settings."""
 
-    def __init__(self, store: QSettings | None = None) -> None:
+    def __init__(self, store: QSettings | None = None, *,
+                 data_directory: Path | None = None) -> None:
         self._store = store if store is not None else QSettings(ORGANISATION, APPLICATION)
+        self._data_directory = data_directory
 
     @classmethod
     def at_path(cls, path: str | Path) -> AppSettings:
-        """Settings kept in an INI file (used by tests)."""
-        return cls(QSettings(str(path), QSettings.Format.IniFormat))
+        """Settings kept in an INI file, data (recovery files) beside it (used by tests)."""
+        return cls(QSettings(str(path), QSettings.Format.IniFormat),
+                   data_directory=Path(path).resolve().parent)
+
+    def data_directory(self) -> Path:
+        """Where the app keeps its own files (recovery files): the user's application
+        data folder, unless these settings were given another place."""
+        if self._data_directory is None:
+            from .autosave import default_data_directory
+            self._data_directory = default_data_directory()
+        return self._data_directory
 
     def _check(self, key: str) -> object:
         if key not in DEFAULTS:
