@@ -21,6 +21,7 @@ from .core.demo import DEMO_SETTINGS, demo_files
 from .core.export import plan_to_json
 from .core.files import write_bytes_atomic
 from .core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, Plan
+from .core.tables import parse_delimiter
 
 CAUTION = ("Travel times are estimates. Drivers' hours and rest rules are set by local law. "
            "The dispatcher decides and is responsible.")
@@ -38,9 +39,14 @@ class _Parser(argparse.ArgumentParser):
 def _solve_parser() -> argparse.ArgumentParser:
     p = _Parser(prog="shipgui solve",
                 description="Minimum vehicles, routes and proof for a day of jobs.")
-    p.add_argument("jobs", help="jobs CSV file")
-    p.add_argument("--sites", help="sites CSV file (names, addresses, coordinates)")
-    p.add_argument("--travel", help="travel CSV file (from, to, minutes)")
+    p.add_argument("jobs", help="jobs file (CSV or XLSX)")
+    p.add_argument("--sites", help="sites file (names, addresses, coordinates)")
+    p.add_argument("--travel", help="travel file (from, to, minutes)")
+    p.add_argument("--sheet", metavar="NAME", help="sheet of the jobs workbook (default: first)")
+    p.add_argument("--sites-sheet", metavar="NAME", help="sheet of the sites workbook")
+    p.add_argument("--travel-sheet", metavar="NAME", help="sheet of the travel workbook")
+    p.add_argument("--delimiter", metavar="D",
+                   help="CSV delimiter: comma, semicolon or tab (default: read from the header)")
     _add_common(p)
     return p
 
@@ -66,6 +72,8 @@ def _add_common(p: argparse.ArgumentParser) -> None:
                    help="cost of one hour of empty driving, to find the cheapest fleet size")
     p.add_argument("--json", metavar="OUT.json", help="write the plan as JSON")
     p.add_argument("--pdf", metavar="OUT.pdf", help="write driver sheets and the certificate")
+    p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx",
+                   help="write one row per job with vehicle and sequence (for spreadsheets)")
     p.add_argument("--verbose", action="store_true", help="print timings per stage")
 
 
@@ -100,8 +108,11 @@ def _settings(args: argparse.Namespace) -> Settings:
 def _check_outputs(args: argparse.Namespace, inputs: list[str | None]) -> None:
     """Refuse outputs that would overwrite an input or cannot be written."""
     sources = {Path(p).resolve() for p in inputs if p}
-    for option in ("json", "pdf"):
-        out = getattr(args, option)
+    routes = getattr(args, "routes", None)
+    if routes and Path(routes).suffix.lower() not in (".csv", ".xlsx"):
+        raise UsageError(f"--routes {routes}: the name must end in .csv or .xlsx")
+    for option in ("json", "pdf", "routes"):
+        out = getattr(args, option, None)
         if not out:
             continue
         path = Path(out).resolve()
@@ -134,6 +145,11 @@ def _render_outputs(plan: Plan, args: argparse.Namespace) -> dict[str, bytes]:
     if args.pdf:
         from .report import build_pdf_bytes
         outputs[args.pdf] = build_pdf_bytes(plan)
+    if getattr(args, "routes", None):
+        from .core.routes_export import route_rows, routes_csv_bytes, routes_xlsx_bytes
+        rows = route_rows(plan)
+        xlsx = Path(args.routes).suffix.lower() == ".xlsx"
+        outputs[args.routes] = routes_xlsx_bytes(rows) if xlsx else routes_csv_bytes(rows)
     return outputs
 
 
@@ -172,11 +188,28 @@ def _summary(plan: Plan, label: str) -> str:
     return "\n".join(lines)
 
 
+def _input_options(args: argparse.Namespace) -> dict:
+    """Sheets and delimiter for the readers, from the command line."""
+    sheets = {kind: name for kind, name in (("jobs", getattr(args, "sheet", None)),
+                                            ("sites", getattr(args, "sites_sheet", None)),
+                                            ("travel", getattr(args, "travel_sheet", None)))
+              if name}
+    options: dict = {"sheets": sheets or None}
+    if getattr(args, "delimiter", None):
+        try:
+            options["delimiter"] = parse_delimiter(args.delimiter)
+        except ValueError as exc:
+            raise UsageError(f"--delimiter: {exc}") from None
+    return options
+
+
 def _run_solve(args: argparse.Namespace, files: dict[str, str | None], settings: Settings,
                label: str) -> int:
     _check_outputs(args, list(files.values()))
+    options = _input_options(args)
     t0 = time.perf_counter()
-    day = load_day(files["jobs"], files.get("sites"), files.get("travel"), settings=settings)
+    day = load_day(files["jobs"], files.get("sites"), files.get("travel"), settings=settings,
+                   **options)
     t1 = time.perf_counter()
     plan = solve_day(day, least_deadhead=args.least_deadhead,
                      tradeoff=max(0, args.tradeoff) if args.least_deadhead else 0)
@@ -213,6 +246,7 @@ def cmd_demo(argv: list[str]) -> int:
     p = _Parser(prog="shipgui demo", description="Solve the built-in invented demo day.")
     p.add_argument("--json", metavar="OUT.json")
     p.add_argument("--pdf", metavar="OUT.pdf")
+    p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx")
     p.add_argument("--verbose", action="store_true")
     p.add_argument("--least-deadhead", action="store_true")
     p.add_argument("--tradeoff", metavar="N", type=int, default=5)

@@ -150,3 +150,42 @@ def test_least_deadhead_tradeoff_and_cost_model(tmp_path, capsys):
     costs = {c["vehicles"]: c["cost"] for c in b["cost_model"]["costs"]}
     assert costs[b["cost_model"]["cheapest_vehicles"]] == min(costs.values())
     assert "Cheapest fleet" in capsys.readouterr().out
+
+
+def test_xlsx_jobs_with_named_sheet_and_routes_export(tmp_path, capsys):
+    import csv
+
+    from openpyxl import Workbook, load_workbook
+    book = Workbook()
+    book.active.title = "Notes"
+    sheet = book.create_sheet("Tomorrow")
+    sheet.append(["job", "origin", "start", "end", "customer"])
+    sheet.append(["J1", "A", "07:00", "08:00", "=HYPERLINK(1)"])
+    sheet.append(["J2", "A", "08:30", "09:00", "Alder & Co"])
+    sheet.append(["J3", "A", "07:30", "09:30", "+fast"])
+    jobs = tmp_path / "jobs.xlsx"
+    book.save(jobs)
+    # The formula cell was never calculated: refused, naming the cell.
+    assert main(["solve", str(jobs), "--sheet", "Tomorrow"]) == 2
+    err = capsys.readouterr().err
+    assert "jobs.xlsx" in err and "cell E2" in err and "Traceback" not in err
+    sheet["E2"] = "'=HYPERLINK(1)"
+    book.save(jobs)
+    out_csv, out_xlsx = tmp_path / "routes.csv", tmp_path / "routes.xlsx"
+    assert main(["solve", str(jobs), "--sheet", "Tomorrow", "--routes", str(out_csv)]) == 0
+    assert main(["solve", str(jobs), "--sheet", "Tomorrow", "--routes", str(out_xlsx)]) == 0
+    rows = list(csv.DictReader(out_csv.read_text(encoding="utf-8-sig").splitlines()))
+    assert sorted(r["job"] for r in rows) == ["J1", "J2", "J3"]
+    customers = {r["job"]: r["customer"] for r in rows}
+    assert customers["J3"] == "'+fast" and customers["J2"] == "Alder & Co"
+    values = [c.value for c in load_workbook(out_xlsx).active["A"]]
+    assert len(values) == 4
+
+
+def test_delimiter_option(tmp_path, capsys):
+    jobs = tmp_path / "jobs.csv"
+    jobs.write_text("job\torigin\tstart\tend\nJ1\tA\t07:00\t08:00\n")
+    assert main(["solve", str(jobs), "--delimiter", "tab"]) == 0
+    assert main(["solve", str(jobs), "--delimiter", "xy"]) == 2
+    assert "--delimiter" in capsys.readouterr().err
+    assert main(["solve", str(jobs), "--routes", str(tmp_path / "r.txt")]) == 2
