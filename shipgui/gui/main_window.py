@@ -5,6 +5,7 @@ from __future__ import annotations
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtGui import QAction, QCloseEvent, QKeySequence, QUndoStack
 from PySide6.QtWidgets import (
+    QInputDialog,
     QLabel,
     QMainWindow,
     QMessageBox,
@@ -21,7 +22,7 @@ from shipgui.core import Job, Plan, Problem
 from .answer_bar import AnswerBar
 from .autosave import Autosaver, find_recoveries
 from .certificate_panel import CertificatePanel
-from .commands import AddJob, ChangeSettings, DeleteJobs
+from .commands import AddJob, ChangeSettings, DeleteJobs, RenameDriver
 from .document import Change, PlanDocument
 from .file_actions import FileActions
 from .inputs_panel import InputsPanel
@@ -206,6 +207,7 @@ class MainWindow(QMainWindow):
         self.inputs_panel.remove_requested.connect(self.files.remove_companion)
         self.jobs_panel.job_selected.connect(self.timeline.select_job)
         self.timeline.job_selected.connect(self.jobs_panel.select_job)
+        self.timeline.vehicle_name_requested.connect(self.ask_driver_name)
         self.timeline.zoom_changed.connect(
             lambda v: self.settings.set("timeline/pixels_per_hour", v))
         self.certificate.pair_selected.connect(self._on_pair)
@@ -358,6 +360,15 @@ class MainWindow(QMainWindow):
         rows = self.jobs_panel.selected_rows()
         if rows:
             self.undo_stack.push(DeleteJobs(self.document, rows))
+
+    def ask_driver_name(self, vehicle: int) -> None:
+        """Type the driver of a vehicle (printed on its route sheet); one undo step."""
+        current = self.document.driver_names.get(vehicle, "")
+        name, ok = QInputDialog.getText(self, "Driver", f"Driver of vehicle {vehicle}:",
+                                        text=current)
+        name = name.strip()
+        if ok and name != current:
+            self.undo_stack.push(RenameDriver(self.document, vehicle, name))
 
     def show_proof(self, on: bool) -> None:
         self.certificate.setVisible(on)

@@ -70,6 +70,7 @@ class TimelineView(QGraphicsView):
     """Shows a plan; emits ``job_selected(id)`` when the user picks a job bar."""
 
     job_selected = Signal(str)
+    vehicle_name_requested = Signal(int)  # vehicle number; sent on double-click of its name
     zoom_changed = Signal(int)
 
     def __init__(self, parent=None, *, pixels_per_hour: int = 90) -> None:
@@ -166,6 +167,16 @@ class TimelineView(QGraphicsView):
         self.set_pixels_per_hour(width / max(hours, 1))
 
     # ------------------------------------------------------------ events
+    def mouseDoubleClickEvent(self, event) -> None:
+        """Double-clicking a vehicle's name asks for its driver's name."""
+        pos = event.position()
+        if self._plan is not None and pos.x() < self._label_width - 6:
+            row = int((self.mapToScene(pos.toPoint()).y() - AXIS_HEIGHT) // ROW_HEIGHT)
+            if 0 <= row < self._plan.vehicles and pos.y() > AXIS_HEIGHT:
+                self.vehicle_name_requested.emit(row + 1)
+                return
+        super().mouseDoubleClickEvent(event)
+
     def wheelEvent(self, event) -> None:
         if event.modifiers() & Qt.KeyboardModifier.ControlModifier:
             x = event.position().x()
@@ -331,6 +342,7 @@ class TimelineView(QGraphicsView):
         panel = scene.addRect(QRectF(0, 0, self._label_width - 6, height),
                               QPen(COLOURS["grid"]), QBrush(QColor("#ffffff")))
         panel.setZValue(6)
+        panel.setToolTip("Double-click a vehicle to type its driver's name")
         self._pinned_labels.append(panel)
         metrics = QFontMetricsF(QFont())
         for k in range(rows):

@@ -309,3 +309,20 @@ def test_export_pdf_with_the_real_writer(qtbot, small_window, tmp_path, monkeypa
     w.files.export_pdf_action.trigger()
     text = "".join(p.extract_text() for p in PdfReader(tmp_path / "sheets.pdf").pages)
     assert "Vehicle 2" in text and "J4" in text and "local law" in text
+
+
+def test_double_click_vehicle_names_its_driver(qtbot, small_window, monkeypatch):
+    from PySide6.QtCore import QPoint
+    from PySide6.QtTest import QTest
+    from PySide6.QtWidgets import QInputDialog
+
+    from shipgui.gui.timeline import AXIS_HEIGHT, ROW_HEIGHT
+    w = small_window
+    w.show()
+    monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("Ada Fenwick", True))
+    point = QPoint(20, AXIS_HEIGHT + ROW_HEIGHT + ROW_HEIGHT // 2)  # vehicle 2's name
+    QTest.mouseDClick(w.timeline.viewport(), Qt.MouseButton.LeftButton, pos=point)
+    assert w.document.driver_names == {2: "Ada Fenwick"}
+    assert w.undo_stack.undoText() == "Name vehicle 2 'Ada Fenwick'"
+    w.undo_stack.undo()
+    assert w.document.driver_names == {}
