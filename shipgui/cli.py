@@ -16,15 +16,13 @@ from pathlib import Path
 
 from . import __version__
 from .core import InputError, Settings, format_clock, format_minutes, load_day, solve_day
-from .core.clock import parse_clock, parse_minutes
+from .core.caution import CAUTION
+from .core.clock import format_duration, parse_clock, parse_minutes
 from .core.demo import DEMO_SETTINGS, demo_files
 from .core.export import plan_to_json
 from .core.files import write_bytes_atomic
 from .core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, Plan
 from .core.tables import parse_delimiter
-
-CAUTION = ("Travel times are estimates. Drivers' hours and rest rules are set by local law. "
-           "The dispatcher decides and is responsible.")
 
 
 class UsageError(Exception):
@@ -153,11 +151,6 @@ def _render_outputs(plan: Plan, args: argparse.Namespace) -> dict[str, bytes]:
     return outputs
 
 
-def _hours(seconds: int) -> str:
-    hours, minutes = divmod(round(seconds / 60), 60)
-    return f"{hours} h {minutes:02d} min"
-
-
 def _summary(plan: Plan, label: str) -> str:
     day = plan.day
     lines = [f"Day: {label} - {day.n} jobs, {len(day.site_ids)} sites"
@@ -173,9 +166,9 @@ def _summary(plan: Plan, label: str) -> str:
     ids = plan.certificate_ids()
     for k in range(0, len(ids), 10):
         lines.append("  " + " ".join(ids[k:k + 10]))
-    lines.append(f"Empty driving: {_hours(plan.deadhead_seconds)} in all")
+    lines.append(f"Empty driving: {format_duration(plan.deadhead_seconds)} in all")
     for vehicles, dead in plan.tradeoff[1:]:
-        lines.append(f"  with at most {vehicles} vehicles: {_hours(dead)} empty driving")
+        lines.append(f"  with at most {vehicles} vehicles: {format_duration(dead)} empty driving")
     for w in day.warnings:
         lines.append(f"Warning: {w}")
     for number, route in enumerate(plan.routes[:5], start=1):
@@ -281,8 +274,6 @@ def cmd_gui(argv: list[str]) -> int:
         if args.demo or not args.files:
             return cmd_demo([])
         return cmd_solve(args.files[:1])
-    if args.screenshot and not _has_display():
-        os.environ["QT_QPA_PLATFORM"] = "offscreen"
     try:
         from .gui.app import run
     except ImportError as exc:

@@ -14,7 +14,7 @@ from datetime import date, datetime, time, timedelta
 from decimal import Decimal, InvalidOperation
 
 __all__ = ["ClockValue", "parse_clock", "parse_minutes", "format_clock",
-           "format_minutes", "resolve_clock"]
+           "format_minutes", "format_duration", "minutes_value", "resolve_clock"]
 
 _HHMM = re.compile(r"^(\d{1,2}):(\d{2})(?::(\d{2}))?$")
 MAX_HOURS = 48  # a plan day plus the following night; more is almost surely a typo
@@ -95,6 +95,21 @@ def format_clock(seconds: int | float) -> str:
     h, rest = divmod(seconds, 3600)
     m, s = divmod(rest, 60)
     return f"{sign}{h:02d}:{m:02d}" + (f":{s:02d}" if s else "")
+
+
+def format_duration(seconds: int | float) -> str:
+    """A duration a person reads at a glance: '45 min', '3 h 05 min' (whole minutes,
+    rounded up: estimates of driving and lateness should never look better than they are)."""
+    minutes = math.ceil(seconds / 60)
+    if minutes < 60:
+        return f"{minutes} min"
+    return f"{minutes // 60} h {minutes % 60:02d} min"
+
+
+def minutes_value(seconds: int) -> int | float:
+    """Minutes as a number for data files: whole when exact, else two decimals."""
+    value = seconds / 60
+    return int(value) if value.is_integer() else round(value, 2)
 
 
 def format_minutes(seconds: int | float) -> str:

@@ -5,19 +5,21 @@ from __future__ import annotations
 import json
 
 from .clock import format_clock
+from .clock import minutes_value as _minutes
 from .model import Plan
 
 __all__ = ["plan_to_dict", "plan_to_json"]
 
 
-def _minutes(seconds: int) -> float:
-    value = seconds / 60
-    return int(value) if value.is_integer() else round(value, 2)
+def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
+                 driver_names: dict[int, str] | None = None) -> dict:
+    """Fixed keys: vehicles, routes (vehicle, jobs), certificate.jobs, verified.
 
-
-def plan_to_dict(plan: Plan, *, cost_model: dict | None = None) -> dict:
-    """Fixed keys: vehicles, routes (vehicle, jobs), certificate.jobs, verified."""
+    ``driver_names`` (vehicle number -> name, as typed in the app) adds a
+    ``driver`` to the routes that have one.
+    """
     day = plan.day
+    names = driver_names or {}
     routes = []
     for number, (route, ids) in enumerate(zip(plan.routes, plan.route_ids()), start=1):
         entry = {"vehicle": number, "jobs": ids,
@@ -25,6 +27,8 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None) -> dict:
                  "last_end": format_clock(day.jobs[route[-1]].end)}
         if plan.route_deadhead_seconds:
             entry["deadhead_minutes"] = _minutes(plan.route_deadhead_seconds[number - 1])
+        if names.get(number):
+            entry["driver"] = names[number]
         routes.append(entry)
     extra: dict = {}
     if plan.tradeoff:
@@ -57,6 +61,7 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None) -> dict:
     }
 
 
-def plan_to_json(plan: Plan, *, cost_model: dict | None = None) -> str:
-    return json.dumps(plan_to_dict(plan, cost_model=cost_model), indent=2,
-                      ensure_ascii=False) + "\n"
+def plan_to_json(plan: Plan, *, cost_model: dict | None = None,
+                 driver_names: dict[int, str] | None = None) -> str:
+    return json.dumps(plan_to_dict(plan, cost_model=cost_model, driver_names=driver_names),
+                      indent=2, ensure_ascii=False) + "\n"

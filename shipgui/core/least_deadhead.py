@@ -27,7 +27,6 @@ generation", in Column Generation, Springer 2005).
 
 from __future__ import annotations
 
-import os
 from dataclasses import dataclass
 
 import numpy as np
@@ -35,6 +34,7 @@ import scipy.sparse as sp
 from scipy.sparse.csgraph import min_weight_full_bipartite_matching
 
 from . import _paths_kernel
+from ._jit import numba_jit
 from .model import Day
 from .precedence import PrefixIndex
 
@@ -82,19 +82,14 @@ def class_costs(day: Day, index: PrefixIndex) -> ClassCosts:
         cost = cost - pin_group[None, :] - pout[:, None]
         base = int(pout.sum() + t[dest, d].sum())
     group_of = np.empty(index.m, dtype=np.int64)
-    group_of[index.order] = np.repeat(np.arange(len(index.group_site)),
-                                      np.diff(index.group_start))
+    group_of[index.order] = index.group_of_position()
     return ClassCosts(index, cost, base, group_of)
 
 
 def _compile():
-    if os.environ.get("SHIPGUI_NO_NUMBA"):
-        return _paths_kernel.queue_bellman_ford
-    try:
-        import numba
-    except ImportError:
-        return _paths_kernel.queue_bellman_ford
-    return numba.njit(cache=True, nogil=True)(_paths_kernel.queue_bellman_ford)
+    jit = numba_jit()
+    kernel = _paths_kernel.queue_bellman_ford
+    return kernel if jit is None else jit(kernel)
 
 
 _BELLMAN_FORD = None

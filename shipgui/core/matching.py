@@ -18,7 +18,6 @@ maximum antichain (König, "Gráfok és mátrixok", Matematikai és Fizikai Lapo
 
 from __future__ import annotations
 
-import os
 from dataclasses import dataclass
 
 import numpy as np
@@ -26,6 +25,7 @@ import scipy.sparse as sp
 from scipy.sparse.csgraph import breadth_first_order, maximum_flow
 
 from . import _hk_kernel
+from ._jit import numba_jit
 from .model import Day
 from .precedence import PrefixIndex
 
@@ -40,7 +40,6 @@ class Matching:
     """
 
     succ: np.ndarray
-    pred: np.ndarray
     antichain: np.ndarray
 
     @property
@@ -49,13 +48,9 @@ class Matching:
 
 
 def _compile_hk():
-    if os.environ.get("SHIPGUI_NO_NUMBA"):
+    jit = numba_jit()
+    if jit is None:
         return None
-    try:
-        import numba
-    except ImportError:
-        return None
-    jit = numba.njit(cache=True, nogil=True)
     # Compile the helpers first so the entry points call the compiled versions.
     for name in ("_bfs", "_dfs_phase", "_find"):
         setattr(_hk_kernel, name, jit(getattr(_hk_kernel, name)))
@@ -95,7 +90,7 @@ def maximum_matching(index: PrefixIndex, *, kernel: str | None = None,
     m = index.m
     if m == 0:
         empty = np.zeros(0, dtype=np.int64)
-        return Matching(empty, empty, empty)
+        return Matching(empty, empty)
     if kernel == "dinic":
         return _dinic(index)
     if kernel == "hopcroft-karp":
@@ -119,7 +114,7 @@ def maximum_matching(index: PrefixIndex, *, kernel: str | None = None,
     reached_left = np.zeros(m, dtype=bool)
     reached_left[index.order[reached_pos]] = True
     antichain = np.flatnonzero(reached_right & ~reached_left)
-    return Matching(succ, pred, antichain)
+    return Matching(succ, antichain)
 
 
 def _dinic(index: PrefixIndex) -> Matching:
@@ -132,7 +127,7 @@ def _dinic(index: PrefixIndex) -> Matching:
     m, order, lat = index.m, index.order, index.latest
     pos = np.empty(m, dtype=np.int64)
     pos[order] = np.arange(m)
-    g_of_pos = np.repeat(np.arange(len(index.group_site)), np.diff(index.group_start))
+    g_of_pos = index.group_of_position()
     link = np.flatnonzero(g_of_pos[:-1] == g_of_pos[1:])
     j_idx, g_idx = np.nonzero(lat >= 0)
     exit_pos = lat[j_idx, g_idx].astype(np.int64)
@@ -157,8 +152,7 @@ def _dinic(index: PrefixIndex) -> Matching:
     reached[breadth_first_order(residual, source, directed=True,
                                 return_predecessors=False)] = True
     antichain = np.flatnonzero(reached[left:left + m] & ~reached[right:right + m])
-    succ, pred = _pairs_from_flow(flow.tocoo(), m, pos, g_of_pos)
-    return Matching(succ, pred, antichain)
+    return Matching(_pairs_from_flow(flow.tocoo(), m, pos, g_of_pos), antichain)
 
 
 def _pairs_from_flow(flow: sp.coo_matrix, m: int, pos: np.ndarray, g_of_pos: np.ndarray):
@@ -179,7 +173,5 @@ def _pairs_from_flow(flow: sp.coo_matrix, m: int, pos: np.ndarray, g_of_pos: np.
     e = np.lexsort((entry_pos, g_of_pos[entry_pos]))
     x = np.lexsort((exit_pos, g_of_pos[exit_pos]))
     succ = np.full(m, -1, dtype=np.int64)
-    pred = np.full(m, -1, dtype=np.int64)
     succ[entry_job[e]] = exit_job[x]
-    pred[exit_job[x]] = entry_job[e]
-    return succ, pred
+    return succ

@@ -51,6 +51,10 @@ class PrefixIndex:
     def m(self) -> int:
         return len(self.jobs)
 
+    def group_of_position(self) -> np.ndarray:
+        """(m,) destination group of every position."""
+        return np.repeat(np.arange(len(self.group_site)), np.diff(self.group_start))
+
     def edge_count(self) -> int:
         """Number of pairs (i, j) with j able to follow i (computed, not stored)."""
         lat = self.latest.astype(np.int64)

@@ -16,6 +16,7 @@ from dataclasses import astuple, dataclass, fields
 from pathlib import Path
 
 from .clock import format_clock
+from .clock import minutes_value as _minutes
 from .deadhead import route_legs
 from .files import write_bytes_atomic
 from .model import Plan
@@ -54,11 +55,6 @@ def neutralise(text: str) -> str:
     if text.startswith(_FORMULA_START) or text.lstrip(" ").startswith(_FORMULA_START):
         return "'" + text
     return text
-
-
-def _minutes(seconds: int) -> float:
-    value = seconds / 60
-    return int(value) if value.is_integer() else round(value, 2)
 
 
 def route_rows(plan: Plan, driver_names: dict[int, str] | None = None) -> list[RouteRow]:

@@ -62,7 +62,7 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Fal
     for index in indexes:
         matching = maximum_matching(index, kernel=kernel, day=day)
         t = stage("matching", t)
-        succ, pred = matching.succ, matching.pred
+        succ = matching.succ
         if least_deadhead and index.m:
             costs = class_costs(day, index)
             best = least_cost_links(costs, initial=succ)
@@ -72,10 +72,8 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Fal
             if tradeoff > 0:
                 curve = tradeoff_curve(costs, best, tradeoff)
                 savings.extend(a - b for a, b in zip(curve, curve[1:]))
-            pred = np.full(index.m, -1, dtype=np.int64)
-            pred[succ[succ >= 0]] = np.flatnonzero(succ >= 0)
             t = stage("least deadhead", t)
-        routes.extend(_chains(index.jobs, succ, pred))
+        routes.extend(_chains(index.jobs, succ))
         certificate.extend(int(k) for k in index.jobs[matching.antichain])
     routes.sort(key=lambda r: (int(day.start[r[0]]), r[0]))
     certificate.sort(key=lambda k: (int(day.start[k]), k))
@@ -107,12 +105,14 @@ def _merge_tradeoff(vehicles: int, deadhead: int, savings: list[int],
     return tuple(points)
 
 
-def _chains(jobs: np.ndarray, succ: np.ndarray, pred: np.ndarray) -> list[tuple[int, ...]]:
+def _chains(jobs: np.ndarray, succ: np.ndarray) -> list[tuple[int, ...]]:
     """Follow the matched links from every job that starts a chain."""
     succ_list = succ.tolist()
     global_ids = jobs.tolist()
     chains = []
-    for head in np.flatnonzero(pred < 0).tolist():
+    starts = np.ones(len(succ), dtype=bool)
+    starts[succ[succ >= 0]] = False  # a job some other job links to does not start a chain
+    for head in np.flatnonzero(starts).tolist():
         chain = []
         k = head
         while k >= 0:

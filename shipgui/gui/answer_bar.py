@@ -7,15 +7,12 @@ from PySide6.QtGui import QAction
 from PySide6.QtWidgets import QFrame, QHBoxLayout, QLabel, QProgressBar, QToolButton, QWidget
 
 from shipgui.core import Plan
+from shipgui.core.clock import format_duration
 
 __all__ = ["AnswerBar", "hours_minutes"]
 
 
-def hours_minutes(seconds: int) -> str:
-    """"3 h 05 min" style, rounded up to the minute."""
-    minutes = -(-int(seconds) // 60)
-    h, m = divmod(minutes, 60)
-    return f"{h} h {m:02d} min" if h else f"{m} min"
+hours_minutes = format_duration  # "3 h 05 min" style, rounded up to the minute
 
 
 class _Figure(QWidget):

@@ -11,7 +11,7 @@ from PySide6.QtCore import QMimeData, QObject
 from PySide6.QtGui import QAction, QKeySequence
 from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QStyle
 
-from shipgui.core import InputError, Problem, Settings, read_sites, read_travel
+from shipgui.core import InputError, Plan, Problem, Settings, read_sites, read_travel
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
 from shipgui.core.routes_export import write_routes
 
@@ -275,25 +275,37 @@ class FileActions(QObject):
         path = Path(path)
         return path if path.suffix.lower() == suffix else path.with_name(path.name + suffix)
 
-    def export_json(self) -> bool:
+    def _current_plan(self) -> Plan | None:
+        """The plan on screen, only when it matches the inputs (never a stale one)."""
         plan = self.window.plan
-        if plan is None or not self.window.plan_is_current:
-            return False
-        path = self._export_path("Export the plan as JSON", ".json", "JSON (*.json)")
-        if path is None:
-            return False
+        return plan if plan is not None and self.window.plan_is_current else None
+
+    def _write_export(self, path: Path, write: Callable[[Path], None],
+                      errors: tuple[type[BaseException], ...] = (OSError,),
+                      reason: str = "{exc}") -> bool:
+        """Write one export; a failure is shown to the user, never raised."""
         try:
-            plan_file.write_plan_json(plan, path, self.window.document.driver_names)
-        except OSError as exc:
-            QMessageBox.warning(self.window, "Not exported", str(exc))
+            write(path)
+        except errors as exc:
+            QMessageBox.warning(self.window, "Not exported", reason.format(exc=exc))
             return False
         self.window.statusBar().showMessage(f"Exported {path.name}", 5000)
         return True
 
+    def export_json(self) -> bool:
+        plan = self._current_plan()
+        if plan is None:
+            return False
+        path = self._export_path("Export the plan as JSON", ".json", "JSON (*.json)")
+        if path is None:
+            return False
+        names = self.window.document.driver_names
+        return self._write_export(path, lambda p: plan_file.write_plan_json(plan, p, names))
+
     def export_routes(self) -> bool:
         """One row per job with vehicle and sequence, for a spreadsheet."""
-        plan = self.window.plan
-        if plan is None or not self.window.plan_is_current:
+        plan = self._current_plan()
+        if plan is None:
             return False
         stem = Path(self.window.document.title).stem
         path, chosen = QFileDialog.getSaveFileName(
@@ -304,29 +316,21 @@ class FileActions(QObject):
         path = Path(path)
         if path.suffix.lower() not in (".csv", ".xlsx"):
             path = path.with_name(path.name + ROUTES_FILTERS.get(chosen, ".csv"))
-        try:
-            write_routes(plan, path, dict(self.window.document.driver_names))
-        except OSError as exc:
-            QMessageBox.warning(self.window, "Not exported", str(exc))
-            return False
-        self.window.statusBar().showMessage(f"Exported {path.name}", 5000)
-        return True
+        names = dict(self.window.document.driver_names)
+        return self._write_export(path, lambda p: write_routes(plan, p, names))
 
     def export_pdf(self) -> bool:
-        plan = self.window.plan
-        if self.pdf_writer is None or plan is None or not self.window.plan_is_current:
+        plan = self._current_plan()
+        if self.pdf_writer is None or plan is None:
             return False
         path = self._export_path("Export route sheets as PDF", ".pdf", "PDF (*.pdf)")
         if path is None:
             return False
-        try:
-            self.pdf_writer(plan, path, driver_names=dict(self.window.document.driver_names))
-        except Exception as exc:  # noqa: BLE001 - shown to the user, not raised
-            QMessageBox.warning(self.window, "Not exported",
-                                f"The PDF could not be written: {exc}")
-            return False
-        self.window.statusBar().showMessage(f"Exported {path.name}", 5000)
-        return True
+        names = dict(self.window.document.driver_names)
+        # Any failure of the writer is shown to the user, not raised.
+        return self._write_export(path, lambda p: self.pdf_writer(plan, p, driver_names=names),
+                                  errors=(Exception,),
+                                  reason="The PDF could not be written: {exc}")
 
     # ------------------------------------------------------------ drag and drop
     @staticmethod

@@ -18,6 +18,7 @@ from PySide6.QtWidgets import (
 )
 
 from shipgui.core import Job, Plan, Problem
+from shipgui.core.caution import CAUTION
 
 from .answer_bar import AnswerBar
 from .autosave import Autosaver, find_recoveries
@@ -35,8 +36,6 @@ from .worker import SolveController, snapshot
 
 __all__ = ["MainWindow", "CAUTION"]
 
-CAUTION = ("Travel times are estimates. Drivers' hours and rest rules are set by local law. "
-           "The dispatcher decides and is responsible.")
 
 
 class MainWindow(QMainWindow):

@@ -34,13 +34,14 @@ from shipgui.core import (
     read_sites,
     read_travel,
 )
+from shipgui.core.export import plan_to_json
 from shipgui.core.files import fsync_directory
 
 from .document import PlanDocument
 
 __all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "document_to_json",
            "document_from_json", "save_document", "open_document", "open_inputs",
-           "plan_json", "write_plan_json", "write_file_safely", "csv_kind",
+           "write_plan_json", "write_file_safely", "csv_kind",
            "companion_files"]
 
 FORMAT = "shipgui-plan"
@@ -102,29 +103,10 @@ def save_document(document: PlanDocument, path: str | Path) -> None:
     write_file_safely(path, data.encode("utf-8"))
 
 
-def plan_json(plan: Plan, driver_names: dict[int, str] | None = None) -> dict:
-    """The exported plan in the contract's format (plus a few welcome extras)."""
-    names = driver_names or {}
-    routes = []
-    for k, ids in enumerate(plan.route_ids(), start=1):
-        route = {"vehicle": k, "jobs": ids}
-        if names.get(k):
-            route["driver"] = names[k]
-        routes.append(route)
-    return {
-        "vehicles": plan.vehicles,
-        "routes": routes,
-        "certificate": {"jobs": plan.certificate_ids()},
-        "verified": bool(plan.verified),
-        "deadhead_minutes": round(plan.deadhead_seconds / 60, 1),
-        "fingerprint": plan.day.fingerprint,
-    }
-
-
 def write_plan_json(plan: Plan, path: str | Path,
                     driver_names: dict[int, str] | None = None) -> None:
-    data = json.dumps(plan_json(plan, driver_names), indent=2, ensure_ascii=False) + "\n"
-    write_file_safely(path, data.encode("utf-8"))
+    """The exported plan: the same JSON as ``shipgui solve --json``, plus drivers."""
+    write_file_safely(path, plan_to_json(plan, driver_names=driver_names).encode("utf-8"))
 
 
 # ------------------------------------------------------------------ reading

@@ -12,6 +12,8 @@ from __future__ import annotations
 from reportlab.pdfgen.canvas import Canvas
 from reportlab.platypus import BaseDocTemplate, Flowable, Frame, PageTemplate
 
+from shipgui.core.caution import CAUTION
+
 from .styles import (
     FONT,
     FONT_BOLD,
@@ -26,8 +28,6 @@ from .text import fit_text
 
 __all__ = ["CAUTION", "SectionStart", "PlanDocument", "PAGE_TEMPLATES"]
 
-CAUTION = ("Travel times are estimates. Drivers' hours and rest rules are set by local law. "
-           "The dispatcher decides and is responsible.")
 
 PAGE_TEMPLATES = ("summary", "route", "certificate")
 

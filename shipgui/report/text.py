@@ -13,6 +13,7 @@ from xml.sax.saxutils import escape
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
 from shipgui.core import format_clock
+from shipgui.core.clock import format_duration as duration_text
 from shipgui.core.model import Day, Job
 
 __all__ = ["esc", "esc_lines", "duration_text", "late_text", "slot_text", "site_block",
@@ -28,15 +29,6 @@ def esc(text: object) -> str:
 def esc_lines(text: str) -> str:
     """Like :func:`esc`, keeping the writer's line breaks."""
     return "<br/>".join(esc(line) for line in str(text).splitlines())
-
-
-def duration_text(seconds: int) -> str:
-    """A duration a person reads at a glance: '45 min', '3 h 05 min' (whole minutes,
-    rounded up: estimates of driving and lateness should never look better than they are)."""
-    minutes = math.ceil(seconds / 60)
-    if minutes < 60:
-        return f"{minutes} min"
-    return f"{minutes // 60} h {minutes % 60:02d} min"
 
 
 def late_text(seconds_short: int) -> str:

@@ -42,6 +42,17 @@ def crash(window) -> None:
     window.autosaver.path = Path("/nonexistent/forgotten.shipgui")  # teardown removes nothing
 
 
+def crashed_window(qtbot, app_settings) -> MainWindow:
+    """A window with unsaved, autosaved edits that then "crashed"."""
+    window = MainWindow(app_settings, solve_delay_ms=0)
+    qtbot.addWidget(window)
+    load_and_wait(qtbot, window, small_document())
+    edit(window)
+    window.autosaver.autosave()
+    crash(window)
+    return window
+
+
 def test_autosave_runs_every_minute_only_with_unsaved_work(qtbot, small_window, tmp_path):
     saver = small_window.autosaver
     assert saver.timer.interval() == AUTOSAVE_MS == 60_000 and saver.timer.isActive()
@@ -75,12 +86,7 @@ def test_clean_save_and_clean_close_remove_the_recovery_file(qtbot, small_window
 
 
 def test_after_a_crash_the_work_is_offered_back(qtbot, app_settings, tmp_path, monkeypatch):
-    first = MainWindow(app_settings, solve_delay_ms=0)
-    qtbot.addWidget(first)
-    load_and_wait(qtbot, first, small_document())
-    edit(first)
-    first.autosaver.autosave()
-    crash(first)
+    first = crashed_window(qtbot, app_settings)
     asked = []
     monkeypatch.setattr(QMessageBox, "question",
                         lambda *a, **k: asked.append(a[2]) or Yes)
@@ -103,12 +109,7 @@ def test_after_a_crash_the_work_is_offered_back(qtbot, app_settings, tmp_path, m
 @pytest.mark.parametrize("answer, left", [(Discard, 0), (Cancel, 1)])
 def test_a_recovery_can_be_discarded_or_kept_for_later(qtbot, app_settings, tmp_path,
                                                        monkeypatch, answer, left):
-    first = MainWindow(app_settings, solve_delay_ms=0)
-    qtbot.addWidget(first)
-    load_and_wait(qtbot, first, small_document())
-    edit(first)
-    first.autosaver.autosave()
-    crash(first)
+    first = crashed_window(qtbot, app_settings)
     monkeypatch.setattr(QMessageBox, "question", lambda *a, **k: answer)
     second = open_window([], demo=False, settings=app_settings)
     qtbot.addWidget(second)
