@@ -10,19 +10,26 @@ set.  Writing ``pin(s) = T[s, depot]`` and ``pout(j) = T[depot, origin_j]``,
 so a link's cost depends only on i's destination site (its group in the
 :class:`~shipgui.core.precedence.PrefixIndex`) and on j.
 
-The plan is a min-cost assignment: every job either links to a successor or
-ends a vehicle's day at a cost above any possible total of link costs, so the
-number of links is maximal (the minimum fleet) and, among those, the cost is
-least.  It is solved on a small candidate set of links with scipy's sparse
-shortest-augmenting-path solver (``min_weight_full_bipartite_matching``;
-Jonker & Volgenant, "A shortest augmenting path algorithm for dense and sparse
-linear assignment problems", Computing 38, 1987).  Optimality over *all*
-compatible pairs is then proven with LP duals: node potentials from shortest
-paths in the residual graph must make every compatible link's reduced cost
-non-negative.  The check runs per (job, site) on prefix maxima, O(n * sites);
-violated links are added and the assignment solved again until none is left
-(column generation; e.g. Desrosiers & Lübbecke, "A primer in column
-generation", in Column Generation, Springer 2005).
+The plan is a minimum-cost flow of exactly F units, F the maximum matching
+(so the fleet stays minimal), on the split graph in compressed form
+(Ahuja, Magnanti & Orlin, Network Flows, 1993, ch. 9, for the split-graph
+formulation; the waiting chain per site follows the time-space idea of
+Kliewer, Mellouli & Suhl, "A time-space network based exact optimization model
+for multi-depot bus scheduling", EJOR 175, 2006):
+
+    source -> i (capacity 1)            i may link to a successor
+    i -> next job of i's group          waiting at the site (free, unbounded)
+    latest[j, g] -> j' (cost(g, j))     the whole prefix of group g reaches j
+    j' -> sink (capacity 1)             j may have a predecessor
+
+Every flow path source -> i -> ... -> j' -> sink is a compatible link i -> j
+at its exact cost, and every set of links is such a flow, so the optimum is
+the optimum over all O(n^2) compatible pairs while the network has only
+O(n * sites) arcs.  It is solved by cost scaling (:mod:`._flow_kernel`).
+
+The trade-off then takes one unit of flow off at a time along a cheapest
+residual path: successive shortest paths in reverse give the least link cost
+with exactly F - 1, F - 2, ... links (Ahuja, Magnanti & Orlin 1993, section 9.7).
 """
 
 from __future__ import annotations
@@ -30,22 +37,18 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-import scipy.sparse as sp
-from scipy.sparse.csgraph import min_weight_full_bipartite_matching
 
-from . import _paths_kernel
+from . import _flow_kernel
 from ._jit import numba_jit
 from .model import Day
 from .precedence import PrefixIndex
 
-__all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution", "tradeoff_curve"]
+__all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution"]
 
-_CANDIDATES_PER_JOB = 8
-# Up to this many compatible pairs, all of them are candidates from the start:
-# one assignment solve, no pricing rounds (faster on small and medium days).
-_ALL_PAIRS_LIMIT = 1_500_000
-_MAX_ROUNDS = 200
-_PRICED_PER_JOB = 3
+_ALPHA = 16  # cost-scaling factor between phases
+_WARM_DIV = 1024  # a warm start begins near the final precision
+_REPAIR_LIMIT = 1000  # arcs priced in at once: re-optimise by shortest paths up to this
+_CANDIDATE_GROUPS = 8  # first round: link arcs from each successor's cheapest groups
 
 
 @dataclass(frozen=True, eq=False)
@@ -61,12 +64,17 @@ class ClassCosts:
 
 @dataclass(frozen=True)
 class LinkSolution:
-    """``succ[i]``: local job after local job i (-1: i ends a route)."""
+    """``succ[i]``: local job after local job i (-1: i ends a route).
+
+    ``curve[s]``: least link cost with exactly ``links - s`` links (s = 0 is
+    ``link_cost``), for as many s as were asked and possible.
+    """
 
     succ: np.ndarray
     links: int
     link_cost: int  # sum of cost over the links (seconds)
-    rounds: int
+    curve: tuple[int, ...]
+    rounds: int  # pricing rounds
 
 
 def class_costs(day: Day, index: PrefixIndex) -> ClassCosts:
@@ -86,213 +94,253 @@ def class_costs(day: Day, index: PrefixIndex) -> ClassCosts:
     return ClassCosts(index, cost, base, group_of)
 
 
-def _compile():
-    jit = numba_jit()
-    kernel = _paths_kernel.queue_bellman_ford
-    return kernel if jit is None else jit(kernel)
+_KERNELS = None
 
 
-_BELLMAN_FORD = None
+def _kernels():
+    global _KERNELS
+    if _KERNELS is None:
+        jit = numba_jit()
+        wrap = (lambda f: f) if jit is None else jit
+        # Helpers first: the compiled kernels call them through module globals.
+        for name in ("_heap_push", "_heap_pop", "update_prices"):
+            setattr(_flow_kernel, name, wrap(getattr(_flow_kernel, name)))
+        _KERNELS = (wrap(_flow_kernel.cost_scaling), wrap(_flow_kernel.tighten_prices),
+                    wrap(_flow_kernel.cancel_one_unit), wrap(_flow_kernel.repair))
+    return _KERNELS
 
 
-def _bellman_ford():
-    global _BELLMAN_FORD
-    if _BELLMAN_FORD is None:
-        _BELLMAN_FORD = _compile()
-    return _BELLMAN_FORD
+@dataclass(frozen=True, eq=False)
+class _Network:
+    first: np.ndarray
+    head: np.ndarray
+    rev: np.ndarray
+    cap: np.ndarray
+    cost: np.ndarray
+    slot: np.ndarray  # residual slot of each forward arc
+    fixed: int  # forward arcs before the link arcs (the same in every round)
+    links: slice  # forward arcs position -> successor
+    start_pos: np.ndarray  # position of each source arc (the first forward arcs)
+    link_key: np.ndarray  # j * groups + g of each link arc, increasing
+    source: int
+    sink: int
+    scale: int
+
+    def link_flow(self, cap: np.ndarray) -> np.ndarray:
+        return self.cap[self.slot[self.links]] - cap[self.slot[self.links]]
 
 
-def least_cost_links(costs: ClassCosts, *, penalty: tuple[int, int] | None = None,
-                     initial: np.ndarray | None = None) -> LinkSolution:
-    """Optimal links for one class.
+def _network(costs: ClassCosts, allowed: np.ndarray) -> _Network:
+    """The network with the link arcs of the ``allowed`` compatible (j, g) pairs."""
+    index = costs.index
+    m, n_groups = index.latest.shape
+    lat = index.latest
+    valid = lat >= 0
+    js, gs = np.nonzero(allowed & valid)  # by successor, then group
+    q = lat[js, gs].astype(np.int64)
+    gpos = index.group_of_position()
+    reach = lat.max(axis=0).astype(np.int64)  # last position of each group that links
+    pos = np.arange(m, dtype=np.int64)
+    useful = pos <= reach[gpos]
+    nxt = pos + 1
+    chain = useful & (nxt < index.group_start[gpos + 1]) & (nxt <= reach[gpos])
+    succ_jobs = np.flatnonzero(valid.any(axis=1))
+    source, sink = 2 * m, 2 * m + 1
+    n_nodes = 2 * m + 2
+    scale = n_nodes + 1  # costs x (nodes + 1): a 1-optimal flow is optimal
+    start_pos = pos[useful]
+    parts = [  # (tail, head, capacity, cost); links last, so the others keep their numbers
+        (np.full(len(start_pos), source), start_pos, 1, 0),
+        (pos[chain], nxt[chain], m, 0),
+        (m + succ_jobs, np.full(len(succ_jobs), sink), 1, 0),
+        (q, m + js, 1, costs.cost[js, gs] * scale),
+    ]
+    sizes = [len(p[0]) for p in parts]
+    n_arcs = sum(sizes)
+    fixed = n_arcs - sizes[-1]
+    tail = np.concatenate([p[0] for p in parts]).astype(np.int64)
+    head = np.concatenate([p[1] for p in parts]).astype(np.int64)
+    cap = np.concatenate([np.full(k, p[2], dtype=np.int64) for p, k in zip(parts, sizes)])
+    cost = np.concatenate([np.full(k, p[3], dtype=np.int64) if np.isscalar(p[3])
+                           else p[3].astype(np.int64) for p, k in zip(parts, sizes)])
+    # Residual slots: forward arcs, then their reverses (capacity 0, cost negated),
+    # grouped by tail node.
+    all_tail = np.concatenate([tail, head])
+    order = np.argsort(all_tail, kind="stable")
+    slot = np.empty(2 * n_arcs, dtype=np.int64)
+    slot[order] = np.arange(2 * n_arcs)
+    partner = np.concatenate([np.arange(n_arcs, 2 * n_arcs), np.arange(n_arcs)])
+    rev = np.empty(2 * n_arcs, dtype=np.int64)
+    rev[slot] = slot[partner]
+    first = np.searchsorted(all_tail[order], np.arange(n_nodes + 1)).astype(np.int64)
+    return _Network(
+        first=first, head=np.concatenate([head, tail])[order], rev=rev,
+        cap=np.concatenate([cap, np.zeros(n_arcs, dtype=np.int64)])[order],
+        cost=np.concatenate([cost, -cost])[order], slot=slot[:n_arcs], fixed=fixed,
+        links=slice(fixed, n_arcs), start_pos=start_pos,
+        link_key=js.astype(np.int64) * n_groups + gs, source=source, sink=sink, scale=scale)
 
-    ``penalty=None``: as many links as possible (minimum fleet), then least cost.
-    ``penalty=(num, den)``: minimise ``den * link_cost + num * routes`` (a price of
-    num/den seconds per vehicle), for the trade-off curve.
-    ``initial``: a succ array whose links seed the candidate set (e.g. a maximum
-    matching, which makes the minimum fleet reachable from the first round).
+
+def _initial_allowed(costs: ClassCosts) -> np.ndarray:
+    """Per successor, the link arcs from its few cheapest groups (a copy)."""
+    valid = costs.index.latest >= 0
+    m, n_groups = valid.shape
+    if n_groups <= _CANDIDATE_GROUPS:
+        return valid.copy()
+    masked = np.where(valid, costs.cost, np.iinfo(np.int64).max)
+    best = np.argpartition(masked, _CANDIDATE_GROUPS - 1, axis=1)[:, :_CANDIDATE_GROUPS]
+    allowed = np.zeros((m, n_groups), dtype=bool)
+    np.put_along_axis(allowed, best, True, axis=1)
+    return allowed & valid
+
+
+def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0) -> LinkSolution:
+    """The least-cost set of as many links as ``matching`` has, for one class.
+
+    ``matching``: a succ array (-1: no successor), normally a maximum matching,
+    so the fleet stays minimal; its links also make the first round feasible.
+    ``extra``: also the least cost with links - 1, ..., links - extra.
+
+    Link arcs are priced in (column generation; e.g. Desrosiers & Lübbecke, "A
+    primer in column generation", in Column Generation, Springer 2005): the
+    flow is solved on each successor's cheapest groups, exact duals are
+    computed, and every left-out arc with a negative reduced cost is added
+    before solving again, warm-started from the previous flow and prices.  It
+    stops when no arc of the full network has a negative reduced cost, which
+    proves the flow optimal on the full network.  The same check follows every
+    step of the trade-off.
     """
-    index, m = costs.index, costs.index.m
-    valid = index.latest >= 0
-    if m == 0 or not valid.any():
-        return LinkSolution(np.full(m, -1, dtype=np.int64), 0, 0, 0)
-    cmin = int(costs.cost[valid].min())
-    scale = 1 if penalty is None else int(penalty[1])
-    weight = (costs.cost - cmin + 1) * scale  # >= 1 so no weight is a zero entry
-    if penalty is None:
-        end_weight = int(weight[valid].max()) * (m + 1) + 1
-    else:
-        end_weight = int(penalty[0]) + scale * (1 - cmin)
-        if end_weight < 1:  # every link costs more than a vehicle: no links at all
-            return LinkSolution(np.full(m, -1, dtype=np.int64), 0, 0, 0)
-    if index.edge_count() <= _ALL_PAIRS_LIMIT:
-        cand = _all_pairs(index)
-    else:
-        cand = _initial_candidates(index, weight, valid, initial)
-    rounds = 0
-    while rounds < _MAX_ROUNDS:
-        rounds += 1
-        ii, jj = np.divmod(cand, m)
-        w = weight[jj, costs.group_of[ii]]
-        col = _assign(m, ii, jj, w, end_weight)
-        d_row, d_col = _potentials(m, ii, jj, w, col, end_weight)
-        extra = _price(index, weight, valid, d_row, d_col)
-        if len(extra) == 0:
-            break
-        cand = np.union1d(cand, extra)
-    else:
-        raise RuntimeError("least-deadhead search did not converge")
-    succ = np.where(col < m, col, -1).astype(np.int64)
+    m = costs.index.m
+    linked = np.flatnonzero(matching >= 0)
+    links = len(linked)
+    if links == 0:
+        return LinkSolution(np.full(m, -1, dtype=np.int64), 0, 0, (0,), 0)
+    allowed = _initial_allowed(costs)
+    allowed[matching[linked], costs.group_of[linked]] = True
+    flow = _PricedFlow(costs, allowed, links)
+    succ = flow.links()
     linked = np.flatnonzero(succ >= 0)
     link_cost = int(costs.cost[succ[linked], costs.group_of[linked]].sum())
-    return LinkSolution(succ, len(linked), link_cost, rounds)
+    if len(linked) != links:
+        raise RuntimeError("least-deadhead flow does not have the asked number of links")
+    if link_cost != flow.link_cost():
+        raise RuntimeError("least-deadhead links do not match their flow")
+    curve = [link_cost]
+    for _ in range(min(extra, links)):
+        flow.take_one_unit()
+        curve.append(flow.link_cost())
+    return LinkSolution(succ, links, link_cost, tuple(curve), flow.rounds)
 
 
-def _all_pairs(index: PrefixIndex) -> np.ndarray:
-    """Every compatible (i, j) as keys i * m + j, expanded from the prefixes."""
-    m = index.m
-    js, gs = np.nonzero(index.latest >= 0)
-    first = index.group_start[gs]
-    counts = index.latest[js, gs].astype(np.int64) - first + 1
-    offsets = np.arange(counts.sum()) - np.repeat(np.cumsum(counts) - counts, counts)
-    positions = np.repeat(first, counts) + offsets
-    return np.sort(index.order[positions] * m + np.repeat(js, counts))
+class _PricedFlow:
+    """A least-cost flow on the network of the allowed link arcs, kept optimal on
+    the full network by adding every priced-out arc and solving again."""
 
+    def __init__(self, costs: ClassCosts, allowed: np.ndarray, links: int):
+        self.costs = costs
+        self.allowed = allowed
+        index = costs.index
+        self.js, self.gs = np.nonzero(index.latest >= 0)
+        self.q = index.latest[self.js, self.gs].astype(np.int64)
+        self.scaling, self.tighten, self.cancel, self.repair = _kernels()
+        self.rounds = 0
+        self.net = _network(costs, allowed)
+        self.cap = self.net.cap.copy()
+        self.price = np.zeros(len(self.net.first) - 1, dtype=np.int64)
+        excess = np.zeros(len(self.price), dtype=np.int64)
+        excess[self.net.source] = links
+        excess[self.net.sink] = -links
+        self._solve(excess)
 
-def _initial_candidates(index: PrefixIndex, weight, valid, initial) -> np.ndarray:
-    """Per job, the cheapest few groups at their tightest position; plus ``initial``."""
-    m, n_groups = weight.shape
-    k = min(_CANDIDATES_PER_JOB, n_groups)
-    masked = np.where(valid, weight, np.iinfo(np.int64).max)
-    best = np.argpartition(masked, k - 1, axis=1)[:, :k] if k < n_groups else \
-        np.broadcast_to(np.arange(n_groups), (m, n_groups))
-    jj = np.repeat(np.arange(m), best.shape[1])
-    gg = best.ravel()
-    ok = valid[jj, gg]
-    ii = index.order[index.latest[jj[ok], gg[ok]]]
-    keys = [ii * m + jj[ok]]
-    if initial is not None:
-        linked = np.flatnonzero(initial >= 0)
-        keys.append(linked * m + initial[linked])
-    return np.unique(np.concatenate(keys))
+    def _solve(self, excess: np.ndarray) -> None:
+        """Optimise from scratch, then price until nothing is missing."""
+        self._scale(excess, 0)
+        self._price_in()
 
+    def _scale(self, excess: np.ndarray, eps: int) -> None:
+        net = self.net
+        self.rounds += 1
+        if not self.scaling(net.first, net.head, net.rev, self.cap, net.cost, excess,
+                            self.price, eps, _ALPHA, _ALPHA if eps <= 0 else _WARM_DIV):
+            raise RuntimeError("least-deadhead flow: the matching's links could not be routed")
+        if not self.tighten(net.first, net.head, self.cap, net.cost, self.price):
+            raise RuntimeError("least-deadhead flow is not optimal (negative cycle)")
 
-def _assign(m: int, ii, jj, w, end_weight: int) -> np.ndarray:
-    """Every job (row) to a successor (column j) or to its own end (column m + i)."""
-    rows = np.concatenate([ii, np.arange(m)])
-    cols = np.concatenate([jj, m + np.arange(m)])
-    data = np.concatenate([w, np.full(m, end_weight, dtype=np.int64)]).astype(float)
-    graph = sp.csr_matrix((data, (rows, cols)), shape=(m, 2 * m))
-    row_ind, col_ind = min_weight_full_bipartite_matching(graph)
-    col = np.empty(m, dtype=np.int64)
-    col[row_ind] = col_ind
-    return col
+    def _price_in(self) -> None:
+        """Add left-out arcs with a negative reduced cost and re-optimise until
+        there are none: many at once by a warm-started cost scaling, a few by
+        successive shortest paths from the exact prices."""
+        while True:
+            priced = self._priced_out()
+            if priced is None:
+                return
+            violation, count = priced
+            zero = np.zeros(len(self.price), dtype=np.int64)
+            if count > _REPAIR_LIMIT:
+                self._scale(zero, violation)
+                continue
+            self.rounds += 1
+            net, cap = self.net, self.cap
+            tail = np.repeat(np.arange(len(net.first) - 1), np.diff(net.first))
+            reduced = net.cost + self.price[tail] - self.price[net.head]
+            bad = np.flatnonzero((cap > 0) & (reduced < 0))
+            np.subtract.at(zero, tail[bad], cap[bad])
+            np.add.at(zero, net.head[bad], cap[bad])
+            cap[net.rev[bad]] += cap[bad]
+            cap[bad] = 0
+            if not self.repair(net.first, net.head, net.rev, cap, net.cost, self.price, zero):
+                raise RuntimeError("least-deadhead flow: could not rebalance after pricing")
 
+    def _priced_out(self) -> tuple[int, int] | None:
+        """Add the left-out arcs with a negative reduced cost and carry the flow
+        over to the larger network: (largest violation, arcs added), or None."""
+        js, gs, m = self.js, self.gs, self.costs.index.m
+        reduced = self.costs.cost[js, gs] * self.net.scale + self.price[self.q] \
+            - self.price[m + js]
+        missing = (reduced < 0) & ~self.allowed[js, gs]
+        if not missing.any():
+            return None
+        self.allowed[js[missing], gs[missing]] = True
+        old, old_cap = self.net, self.cap
+        net = _network(self.costs, self.allowed)
+        flow = np.zeros(len(net.slot), dtype=np.int64)
+        flow[:old.fixed] = (old.cap - old_cap)[old.slot[:old.fixed]]
+        flow[net.fixed + np.searchsorted(net.link_key, old.link_key)] = old.link_flow(old_cap)
+        cap = net.cap.copy()
+        cap[net.slot] -= flow
+        cap[net.rev[net.slot]] += flow
+        self.net, self.cap = net, cap
+        return int(-reduced[missing].min()), int(missing.sum())
 
-def _potentials(m: int, ii, jj, w, col, end_weight: int):
-    """Distances D from each node to a free column in the residual graph.
+    def links(self) -> np.ndarray:
+        """succ array of the current flow."""
+        net, index = self.net, self.costs.index
+        n_groups = index.latest.shape[1]
+        used = net.link_flow(self.cap) > 0
+        entering = net.start_pos[(net.cap - self.cap)[net.slot[:len(net.start_pos)]] > 0]
+        key = net.link_key[used]
+        position = index.latest.reshape(-1)[key].astype(np.int64)
+        job = key // n_groups
+        leave = np.lexsort((job, position))
+        succ = np.full(index.m, -1, dtype=np.int64)
+        if len(entering) != len(leave):
+            raise RuntimeError("least-deadhead flow is not balanced")
+        # Within a group, the k-th vehicle to become free takes the k-th link to
+        # leave (first in, first out); the flow on the waiting arcs guarantees
+        # it is ready in time.
+        succ[index.order[entering]] = job[leave]
+        return succ
 
-    Duals u_i = D(row i), v_c = -D(column c) satisfy u_i + v_c <= weight on every
-    candidate arc with equality on the assignment (shortest-path optimality).
-    Rows that reach no free column get a large potential so that pricing adds
-    their links (or, having no successor at all, they need none).
-    """
-    inf = _paths_kernel.INF
-    ends = np.arange(m)
-    matched = col[ii] == jj
-    # Reversed residual arcs: unmatched arc row->col becomes col->row (+w);
-    # a matched arc (col->row with -w in the residual graph) becomes row->col.
-    tail = np.concatenate([np.where(matched, ii, m + jj),
-                           np.where(col == m + ends, ends, 2 * m + ends)])
-    head = np.concatenate([np.where(matched, m + jj, ii),
-                           np.where(col == m + ends, 2 * m + ends, ends)])
-    wt = np.concatenate([np.where(matched, -w, w),
-                         np.where(col == m + ends, -end_weight, end_weight)])
-    order = np.argsort(tail, kind="stable")
-    indptr = np.searchsorted(tail[order], np.arange(3 * m + 1))
-    dist = np.full(3 * m, inf, dtype=np.int64)
-    used = np.zeros(2 * m, dtype=bool)
-    used[col] = True
-    dist[m:][~used] = 0
-    if not _bellman_ford()(indptr.astype(np.int64), head[order].astype(np.int64),
-                           wt[order].astype(np.int64), dist):
-        raise RuntimeError("negative cycle: the assignment was not optimal")
-    d_row = dist[:m]
-    unreached = d_row >= inf
-    d_row[unreached] = int(np.abs(wt).sum()) + end_weight + 1
-    d_col = dist[m:2 * m]
-    d_end = np.where(col == m + ends, d_row - end_weight, dist[2 * m:])
-    # Dual feasibility v <= 0 (column constraints are "at most one"): D >= 0.
-    if np.any(d_col >= inf) or np.any(d_col < 0) or np.any(d_end < 0):
-        raise RuntimeError("dual check failed: the assignment was not optimal")
-    return d_row, d_col
+    def link_cost(self) -> int:
+        """Total cost of the current links (seconds)."""
+        net = self.net
+        return int(net.link_flow(self.cap) @ net.cost[net.slot[net.links]]) // net.scale
 
-
-def _price(index: PrefixIndex, weight, valid, d_row, d_col) -> np.ndarray:
-    """Compatible links (i, j) with negative reduced cost, D(i) - D(j) > weight.
-
-    Per group the best i for a prefix is the one of largest D so far; per job j
-    only its few most violated links are returned (partial pricing keeps the
-    candidate set small).
-    """
-    m, n_groups = weight.shape
-    reduced = np.zeros((m, n_groups), dtype=np.int64)
-    pick = np.full((m, n_groups), -1, dtype=np.int64)
-    for g in range(n_groups):
-        a, b = index.group_start[g], index.group_start[g + 1]
-        vals = d_row[index.order[a:b]]
-        best = np.maximum.accumulate(vals)
-        arg = np.maximum.accumulate(np.where(vals == best, np.arange(b - a), 0))
-        js = np.flatnonzero(valid[:, g])
-        p = index.latest[js, g] - a
-        reduced[js, g] = weight[js, g] - best[p] + d_col[js]
-        pick[js, g] = index.order[a + arg[p]]
-    k = min(_PRICED_PER_JOB, n_groups)
-    top = np.argpartition(reduced, k - 1, axis=1)[:, :k] if k < n_groups else \
-        np.broadcast_to(np.arange(n_groups), (m, n_groups))
-    jj = np.repeat(np.arange(m), top.shape[1])
-    gg = top.ravel()
-    bad = reduced[jj, gg] < 0
-    return pick[jj[bad], gg[bad]] * m + jj[bad]
-
-
-def tradeoff_curve(costs: ClassCosts, best: LinkSolution, extra: int) -> list[int]:
-    """Least link cost with exactly ``best.links - s`` links, for s = 0..extra.
-
-    The least cost as a function of the number of links is convex (it is a
-    min-cost flow value; Ahuja, Magnanti & Orlin, Network Flows, 1993, ch. 9),
-    so its corners are found by Lagrangian prices at chord slopes and the
-    integer points between corners lie on the chords.
-    """
-    top = best.links
-    low_target = max(0, top - extra)
-    corners = {0: 0, top: best.link_cost}
-    stack = [(0, top)]
-    while stack:
-        l1, l2 = stack.pop()
-        if l2 - l1 <= 1 or l2 <= low_target:
-            continue
-        f1, f2 = corners[l1], corners[l2]
-        num, den = f2 - f1, l2 - l1
-        sol = least_cost_links(costs, penalty=(num, den), initial=best.succ)
-        # Value of the solution against the chord's supporting line.
-        if den * sol.link_cost - num * sol.links >= den * f1 - num * l1 \
-                or sol.links in corners:
-            continue  # f is linear on [l1, l2]
-        corners[sol.links] = sol.link_cost
-        stack.extend([(l1, sol.links), (sol.links, l2)])
-    xs = sorted(corners)
-    curve = []
-    for s in range(extra + 1):
-        links = top - s
-        if links < 0:
-            break
-        k = np.searchsorted(xs, links)
-        if xs[k] == links:
-            curve.append(corners[links])
-            continue
-        l1, l2 = xs[k - 1], xs[k]
-        f1, f2 = corners[l1], corners[l2]
-        value = f1 * (l2 - links) + f2 * (links - l1)
-        curve.append(value // (l2 - l1))
-    return curve
+    def take_one_unit(self) -> None:
+        """Remove one link at least extra cost (the flow stays optimal)."""
+        net = self.net
+        step = self.cancel(net.first, net.head, net.rev, self.cap, net.cost, self.price,
+                           net.source, net.sink)
+        if step >= _flow_kernel.INF:
+            raise RuntimeError("least-deadhead trade-off: no link to remove")
+        self._price_in()

@@ -14,7 +14,7 @@ from collections.abc import Callable
 import numpy as np
 
 from .deadhead import plan_deadhead
-from .least_deadhead import class_costs, least_cost_links, tradeoff_curve
+from .least_deadhead import class_costs, least_cost_links
 from .matching import default_kernel, maximum_matching
 from .model import Day, Plan
 from .precedence import class_indexes
@@ -65,13 +65,11 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Fal
         succ = matching.succ
         if least_deadhead and index.m:
             costs = class_costs(day, index)
-            best = least_cost_links(costs, initial=succ)
+            best = least_cost_links(costs, succ, extra=tradeoff)
             if best.links != matching.size:
                 raise RuntimeError("least-deadhead plan lost the minimum fleet")
             succ = best.succ
-            if tradeoff > 0:
-                curve = tradeoff_curve(costs, best, tradeoff)
-                savings.extend(a - b for a, b in zip(curve, curve[1:]))
+            savings.extend(a - b for a, b in zip(best.curve, best.curve[1:]))
             t = stage("least deadhead", t)
         routes.extend(_chains(index.jobs, succ))
         certificate.extend(int(k) for k in index.jobs[matching.antichain])

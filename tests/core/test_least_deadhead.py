@@ -7,7 +7,7 @@ import numpy as np
 import pytest
 
 from shipgui.core import Job, Settings, build_day, can_follow_matrix, solve_day
-from shipgui.core.least_deadhead import class_costs, least_cost_links, tradeoff_curve
+from shipgui.core.least_deadhead import class_costs, least_cost_links
 from shipgui.core.matching import maximum_matching
 from shipgui.core.precedence import class_indexes
 from tests.support.days import random_day
@@ -41,20 +41,75 @@ def _one_class(seed, depot=False):
                       settings=settings)
 
 
-@pytest.mark.parametrize("pricing", [False, True], ids=["all-pairs", "column-generation"])
-@pytest.mark.parametrize("seed", range(110))
-def test_least_cost_equals_networkx_min_cost_flow(seed, pricing, monkeypatch):
-    # Both ways of choosing candidates: all pairs at once, or pricing rounds.
+# Ways to reach the optimum: every link arc from the start; one group per
+# successor, then pricing rounds re-optimised by warm-started cost scaling; the
+# same with successive-shortest-path repairs.
+STRATEGIES = {"all-arcs": (10**6, 10**6), "priced-scaling": (1, 0), "priced-repair": (1, 10**6)}
+
+
+@pytest.fixture(params=list(STRATEGIES))
+def strategy(request, monkeypatch):
     import shipgui.core.least_deadhead as least
-    if pricing:
-        monkeypatch.setattr(least, "_ALL_PAIRS_LIMIT", 0)
+    groups, repair = STRATEGIES[request.param]
+    monkeypatch.setattr(least, "_CANDIDATE_GROUPS", groups)
+    monkeypatch.setattr(least, "_REPAIR_LIMIT", repair)
+    return request.param
+
+
+@pytest.mark.parametrize("seed", range(110))
+def test_least_cost_equals_networkx_min_cost_flow(seed, strategy):
     day = _one_class(seed, depot=seed % 2 == 1)
     index = class_indexes(day)[0]
     costs = class_costs(day, index)
     matching = maximum_matching(index, day=day)
-    best = least_cost_links(costs, initial=matching.succ)
+    best = least_cost_links(costs, matching.succ)
     assert (best.links, best.link_cost) == _networkx_min_cost(day, costs)
     assert best.links == matching.size  # still the minimum fleet
+    # The links are real: each one is a compatible pair, each job used once.
+    follows = can_follow_matrix(day).toarray()
+    linked = np.flatnonzero(best.succ >= 0)
+    assert follows[linked, best.succ[linked]].all()
+    assert len(set(best.succ[linked].tolist())) == len(linked)
+
+
+@pytest.mark.parametrize("seed", range(8))
+def test_least_cost_equals_scipy_assignment_on_all_pairs(seed):
+    # Reference: the straightforward sparse assignment on every compatible pair
+    # (scipy min_weight_full_bipartite_matching; Jonker & Volgenant, Computing 38,
+    # 1987); ending a route costs more than any total of links, so the number of
+    # links is maximal first.  Larger days than networkx can check quickly.
+    import scipy.sparse as sparse
+    from scipy.sparse.csgraph import min_weight_full_bipartite_matching
+
+    from tests.support.days import regional_day
+    day = regional_day(300 + 40 * seed, 25, seed=seed)
+    index = class_indexes(day)[0]
+    costs = class_costs(day, index)
+    best = least_cost_links(costs, maximum_matching(index, day=day).succ)
+    follows = can_follow_matrix(day).tocoo()
+    n = day.n
+    local = np.empty(n, dtype=np.int64)
+    local[index.jobs] = np.arange(n)
+    i, j = local[follows.row], local[follows.col]
+    w = costs.cost[j, costs.group_of[i]] + 1 - costs.cost.min()
+    end = int(w.max()) * (n + 1)
+    graph = sparse.csr_matrix(
+        (np.concatenate([w, np.full(n, end)]).astype(float),
+         (np.concatenate([i, np.arange(n)]), np.concatenate([j, n + np.arange(n)]))),
+        shape=(n, 2 * n))
+    rows, cols = min_weight_full_bipartite_matching(graph)
+    linked = cols < n
+    assert linked.sum() == best.links
+    assert int(costs.cost[cols[linked], costs.group_of[rows[linked]]].sum()) == best.link_cost
+
+
+def test_least_deadhead_is_deterministic():
+    from shipgui.core.export import plan_to_json
+    from tests.support.days import regional_day
+    day = regional_day(400, 30, seed=11)
+    first = plan_to_json(solve_day(day, least_deadhead=True, tradeoff=5))
+    assert all(plan_to_json(solve_day(day, least_deadhead=True, tradeoff=5)) == first
+               for _ in range(3))
 
 
 @pytest.mark.parametrize("seed", range(25))
@@ -94,13 +149,14 @@ def test_tanker_example_deadhead():
 
 
 @pytest.mark.parametrize("seed", range(12))
-def test_tradeoff_matches_networkx_and_is_monotone(seed):
+def test_tradeoff_matches_networkx_and_is_monotone(seed, strategy):
+    # Exactly k vehicles, no depot: removing a link never adds empty driving.
     day = _one_class(seed)
     index = class_indexes(day)[0]
     costs = class_costs(day, index)
-    best = least_cost_links(costs, initial=maximum_matching(index, day=day).succ)
-    curve = tradeoff_curve(costs, best, 3)
-    assert curve[0] == best.link_cost
+    best = least_cost_links(costs, maximum_matching(index, day=day).succ, extra=3)
+    curve = best.curve
+    assert curve[0] == best.link_cost and len(curve) == min(4, best.links + 1)
     assert all(a >= b for a, b in zip(curve, curve[1:]))
     for extra, value in enumerate(curve):
         assert _networkx_min_cost(day, costs, extra)[1] == value

@@ -1,0 +1,371 @@
+"""Minimum-cost flow kernels on a residual graph in CSR form.
+
+Plain Python over numpy arrays so that numba can compile them (see
+:mod:`shipgui.core.least_deadhead`, which builds the network).  Every arc slot
+``a`` of node ``u`` (``first[u] <= a < first[u + 1]``) has a head, a residual
+capacity ``cap[a]``, a cost and the slot of its reverse ``rev[a]`` (with cost
+``-cost[a]``).  Prices are distance-like: the reduced cost of slot a from u to v
+is ``cost[a] + price[u] - price[v]``.
+
+* :func:`cost_scaling`: push-relabel successive approximation (Goldberg &
+  Tarjan, "Finding minimum-cost circulations by successive approximation",
+  Math. Oper. Res. 15(3), 1990; FIFO discharge and the relabel rule as in
+  Goldberg, "An efficient implementation of a scaling minimum-cost flow
+  algorithm", J. Algorithms 22, 1997).  With costs multiplied by more than the
+  number of nodes, a 1-optimal flow is optimal (Goldberg & Tarjan 1990, Thm 3.3
+  in their numbering: epsilon < 1/n implies optimality for integer costs).
+* :func:`tighten_prices`: queue relaxation until every residual arc has a
+  non-negative reduced cost (exact LP duals of an optimal flow).
+* :func:`cancel_one_unit`: one step of successive shortest paths in reverse:
+  take one unit off the flow from ``source`` to ``sink`` at least extra cost
+  (Dijkstra on reduced costs; Ahuja, Magnanti & Orlin, Network Flows, 1993,
+  section 9.7).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+INF = np.int64(1) << np.int64(62)
+
+
+def _heap_push(keys, nodes, size, key, node):
+    """Binary min-heap of (key, node) pairs, ties by node (a deterministic order)."""
+    i = size
+    while i > 0:
+        parent = (i - 1) >> 1
+        if keys[parent] < key or (keys[parent] == key and nodes[parent] <= node):
+            break
+        keys[i] = keys[parent]
+        nodes[i] = nodes[parent]
+        i = parent
+    keys[i] = key
+    nodes[i] = node
+    return size + 1
+
+
+def _heap_pop(keys, nodes, size):
+    """Remove the top of the heap (read it from keys[0], nodes[0] first)."""
+    size -= 1
+    key = keys[size]
+    node = nodes[size]
+    i = 0
+    while True:
+        child = 2 * i + 1
+        if child >= size:
+            break
+        if child + 1 < size and (keys[child + 1] < keys[child] or (
+                keys[child + 1] == keys[child] and nodes[child + 1] < nodes[child])):
+            child += 1
+        if key < keys[child] or (key == keys[child] and node <= nodes[child]):
+            break
+        keys[i] = keys[child]
+        nodes[i] = nodes[child]
+        i = child
+    keys[i] = key
+    nodes[i] = node
+    return size
+
+
+def update_prices(first, head, rev, cap, cost, price, excess, eps, dist, done, keys, nodes):
+    """Global price update (Goldberg 1997, section 5): lower every price by eps
+    times its distance to a node with a deficit, with arc lengths
+    floor(reduced cost / eps) + 1.  Keeps eps-optimality and makes a shortest
+    admissible path from every excess to a deficit.  The search stops once
+    every node with an excess is reached; the rest count as that far away."""
+    n = first.shape[0] - 1
+    size = 0
+    waiting = 0  # nodes with an excess not yet reached
+    for v in range(n):
+        done[v] = False
+        dist[v] = INF
+        if excess[v] < 0:
+            dist[v] = 0
+            size = _heap_push(keys, nodes, size, np.int64(0), v)
+        elif excess[v] > 0:
+            waiting += 1
+    top = np.int64(0)
+    while size > 0 and waiting > 0:
+        d = keys[0]
+        w = nodes[0]
+        size = _heap_pop(keys, nodes, size)
+        if done[w]:
+            continue
+        done[w] = True
+        top = d
+        if excess[w] > 0:
+            waiting -= 1
+        pw = price[w]
+        for b in range(first[w], first[w + 1]):
+            a = rev[b]
+            if cap[a] > 0:
+                v = head[b]
+                if done[v]:
+                    continue
+                step = (cost[a] + price[v] - pw) // eps + 1
+                if step < 0:
+                    step = 0
+                nd = d + step
+                if nd < dist[v]:
+                    dist[v] = nd
+                    size = _heap_push(keys, nodes, size, nd, v)
+    for v in range(n):
+        price[v] -= eps * (dist[v] if done[v] else top)
+
+
+def cost_scaling(first, head, rev, cap, cost, excess, price, eps, alpha, first_alpha):
+    """Route all ``excess`` (supplies > 0, demands < 0; sums to zero) at least cost.
+
+    ``cap``, ``excess`` and ``price`` are changed in place (excess ends all
+    zero).  The start must be ``eps``-optimal for ``price`` (eps <= 0: the
+    largest absolute cost, right for any start with zero prices).  The first
+    phase divides eps by ``first_alpha``, the others by ``alpha``.  Returns
+    False when the supplies cannot be routed: then some price falls further
+    than a refine can move it when a routing exists (Goldberg & Tarjan 1990:
+    from an eps'-optimal start, by at most about (eps' + eps) * n).
+    """
+    n = first.shape[0] - 1
+    current = np.empty(n, dtype=np.int64)
+    queue = np.empty(n, dtype=np.int64)
+    in_queue = np.zeros(n, dtype=np.bool_)
+    dist = np.empty(n, dtype=np.int64)
+    done = np.empty(n, dtype=np.bool_)
+    keys = np.empty(cap.shape[0] + n + 1, dtype=np.int64)
+    nodes = np.empty(cap.shape[0] + n + 1, dtype=np.int64)
+    if eps <= 0:  # zero prices: any flow is eps-optimal for the largest |cost|
+        eps = np.int64(1)
+        for a in range(cost.shape[0]):
+            c = cost[a] if cost[a] >= 0 else -cost[a]
+            if c > eps:
+                eps = c
+    divide = first_alpha
+    while True:
+        start_eps = eps  # the flow is start_eps-optimal now
+        eps = max(np.int64(1), eps // divide)
+        divide = alpha
+        # Saturate every residual arc of negative reduced cost: the flow becomes
+        # 0-optimal and the imbalance shows up as excesses.
+        for u in range(n):
+            pu = price[u]
+            for a in range(first[u], first[u + 1]):
+                if cap[a] > 0:
+                    v = head[a]
+                    if cost[a] + pu - price[v] < 0:
+                        d = cap[a]
+                        excess[u] -= d
+                        excess[v] += d
+                        cap[rev[a]] += d
+                        cap[a] = 0
+        update_prices(first, head, rev, cap, cost, price, excess, eps, dist, done, keys, nodes)
+        floor = price - (start_eps + 2 * eps) * (n + 1)
+        relabels = 0
+        qh = 0
+        size = 0
+        for u in range(n):
+            current[u] = first[u]
+            if excess[u] > 0:
+                queue[(qh + size) % n] = u
+                size += 1
+                in_queue[u] = True
+        while size > 0:
+            u = queue[qh]
+            qh = (qh + 1) % n
+            size -= 1
+            in_queue[u] = False
+            while excess[u] > 0:
+                a = current[u]
+                end = first[u + 1]
+                pu = price[u]
+                while a < end:
+                    if cap[a] > 0:
+                        v = head[a]
+                        if cost[a] + pu - price[v] < 0:
+                            d = excess[u] if excess[u] < cap[a] else cap[a]
+                            cap[a] -= d
+                            cap[rev[a]] += d
+                            excess[u] -= d
+                            excess[v] += d
+                            if excess[v] > 0 and not in_queue[v]:
+                                queue[(qh + size) % n] = v
+                                size += 1
+                                in_queue[v] = True
+                            if excess[u] == 0:
+                                break
+                    a += 1
+                if excess[u] == 0:
+                    current[u] = a
+                    break
+                best = -INF
+                for b in range(first[u], end):
+                    if cap[b] > 0:
+                        val = price[head[b]] - cost[b]
+                        if val > best:
+                            best = val
+                if best == -INF:
+                    return False
+                price[u] = best - eps
+                if price[u] < floor[u]:
+                    return False
+                current[u] = first[u]
+                relabels += 1
+                if relabels >= n:
+                    update_prices(first, head, rev, cap, cost, price, excess, eps, dist, done,
+                                  keys, nodes)
+                    relabels = 0
+                    for w in range(n):
+                        current[w] = first[w]
+        if eps == 1:
+            break
+    return True
+
+
+def tighten_prices(first, head, cap, cost, price):
+    """Lower prices until no residual arc has a negative reduced cost, in place.
+
+    Returns False if that is impossible (a negative cycle: the flow is not optimal).
+    """
+    n = first.shape[0] - 1
+    queue = np.empty(n, dtype=np.int64)
+    in_queue = np.ones(n, dtype=np.bool_)
+    count = np.zeros(n, dtype=np.int64)
+    for u in range(n):
+        queue[u] = u
+    qh = 0
+    size = n
+    while size > 0:
+        u = queue[qh]
+        qh = (qh + 1) % n
+        size -= 1
+        in_queue[u] = False
+        pu = price[u]
+        for a in range(first[u], first[u + 1]):
+            if cap[a] > 0:
+                v = head[a]
+                if pu + cost[a] < price[v]:
+                    price[v] = pu + cost[a]
+                    if not in_queue[v]:
+                        count[v] += 1
+                        if count[v] > n:
+                            return False
+                        queue[(qh + size) % n] = v
+                        size += 1
+                        in_queue[v] = True
+    return True
+
+
+def cancel_one_unit(first, head, rev, cap, cost, price, source, sink):
+    """Send one unit from ``sink`` back to ``source`` along a cheapest residual path.
+
+    Needs reduced costs >= 0 on residual arcs (see :func:`tighten_prices`) and
+    keeps them so.  Returns the path's cost, or INF when there is no path.
+    """
+    n = first.shape[0] - 1
+    dist = np.full(n, INF, dtype=np.int64)
+    via = np.full(n, -1, dtype=np.int64)
+    done = np.zeros(n, dtype=np.bool_)
+    keys = np.empty(cap.shape[0] + 1, dtype=np.int64)
+    nodes = np.empty(cap.shape[0] + 1, dtype=np.int64)
+    size = _heap_push(keys, nodes, 0, np.int64(0), sink)
+    dist[sink] = 0
+    while size > 0:
+        d = keys[0]
+        u = nodes[0]
+        size = _heap_pop(keys, nodes, size)
+        if done[u]:
+            continue
+        done[u] = True
+        if u == source:
+            break
+        pu = price[u]
+        for a in range(first[u], first[u + 1]):
+            if cap[a] > 0:
+                v = head[a]
+                nd = d + cost[a] + pu - price[v]
+                if nd < dist[v]:
+                    dist[v] = nd
+                    via[v] = a
+                    size = _heap_push(keys, nodes, size, nd, v)
+    if not done[source]:
+        return INF
+    target = dist[source]
+    path_cost = np.int64(0)
+    v = source
+    while v != sink:
+        a = via[v]
+        cap[a] -= 1
+        cap[rev[a]] += 1
+        path_cost += cost[a]
+        v = head[rev[a]]
+    for v in range(n):
+        price[v] += dist[v] if dist[v] < target else target
+    return path_cost
+
+
+def repair(first, head, rev, cap, cost, price, excess):
+    """Route every excess to a deficit by successive shortest paths, in place.
+
+    Needs reduced costs >= 0 on residual arcs and keeps them so (Ahuja,
+    Magnanti & Orlin 1993, section 9.7), so the result is optimal.  Cheap when
+    few units are out of balance.  Returns False if some excess cannot reach
+    a deficit.
+    """
+    n = first.shape[0] - 1
+    dist = np.empty(n, dtype=np.int64)
+    via = np.empty(n, dtype=np.int64)
+    done = np.empty(n, dtype=np.bool_)
+    keys = np.empty(cap.shape[0] + n + 1, dtype=np.int64)
+    nodes = np.empty(cap.shape[0] + n + 1, dtype=np.int64)
+    while True:
+        size = 0
+        for v in range(n):
+            dist[v] = INF
+            via[v] = -1
+            done[v] = False
+            if excess[v] > 0:
+                dist[v] = 0
+                size = _heap_push(keys, nodes, size, np.int64(0), v)
+        if size == 0:
+            return True
+        target = -1
+        reach = np.int64(0)
+        while size > 0:
+            d = keys[0]
+            u = nodes[0]
+            size = _heap_pop(keys, nodes, size)
+            if done[u]:
+                continue
+            done[u] = True
+            if excess[u] < 0:
+                target = u
+                reach = d
+                break
+            pu = price[u]
+            for a in range(first[u], first[u + 1]):
+                if cap[a] > 0:
+                    v = head[a]
+                    nd = d + cost[a] + pu - price[v]
+                    if nd < dist[v]:
+                        dist[v] = nd
+                        via[v] = a
+                        size = _heap_push(keys, nodes, size, nd, v)
+        if target < 0:
+            return False
+        delta = -excess[target]
+        v = target
+        while via[v] >= 0:
+            a = via[v]
+            if cap[a] < delta:
+                delta = cap[a]
+            v = head[rev[a]]
+        if excess[v] < delta:
+            delta = excess[v]
+        excess[v] -= delta
+        excess[target] += delta
+        v = target
+        while via[v] >= 0:
+            a = via[v]
+            cap[a] -= delta
+            cap[rev[a]] += delta
+            v = head[rev[a]]
+        for v in range(n):
+            price[v] += dist[v] if dist[v] < reach else reach
