@@ -113,6 +113,34 @@ def update_prices(first, head, rev, cap, cost, price, excess, eps, dist, done, k
         price[v] -= eps * (dist[v] if done[v] else top)
 
 
+def _relabel(first, head, cap, cost, price, u, eps):
+    """Lower u's price just enough for one residual arc to become admissible
+    (reduced cost -eps).  False if u has no residual arc at all."""
+    best = -INF
+    for b in range(first[u], first[u + 1]):
+        if cap[b] > 0:
+            val = price[head[b]] - cost[b]
+            if val > best:
+                best = val
+    if best == -INF:
+        return False
+    price[u] = best - eps
+    return True
+
+
+def _has_admissible(first, head, cap, cost, price, current, v):
+    """Advance v's current arc to its next admissible arc; False if none is left."""
+    pv = price[v]
+    b = current[v]
+    end = first[v + 1]
+    while b < end:
+        if cap[b] > 0 and cost[b] + pv - price[head[b]] < 0:
+            break
+        b += 1
+    current[v] = b
+    return b < end
+
+
 def cost_scaling(first, head, rev, cap, cost, excess, price, eps, alpha, first_alpha):
     """Route all ``excess`` (supplies > 0, demands < 0; sums to zero) at least cost.
 
@@ -179,6 +207,13 @@ def cost_scaling(first, head, rev, cap, cost, excess, price, eps, alpha, first_a
                 while a < end:
                     if cap[a] > 0:
                         v = head[a]
+                        if cost[a] + pu - price[v] < 0 and excess[v] >= 0 and \
+                                not _has_admissible(first, head, cap, cost, price, current, v):
+                            # Push look-ahead (Goldberg 1997, section 6): v could not
+                            # pass the flow on, so relabel v first and look again.
+                            if _relabel(first, head, cap, cost, price, v, eps):
+                                current[v] = first[v]
+                                relabels += 1
                         if cost[a] + pu - price[v] < 0:
                             d = excess[u] if excess[u] < cap[a] else cap[a]
                             cap[a] -= d
@@ -195,16 +230,7 @@ def cost_scaling(first, head, rev, cap, cost, excess, price, eps, alpha, first_a
                 if excess[u] == 0:
                     current[u] = a
                     break
-                best = -INF
-                for b in range(first[u], end):
-                    if cap[b] > 0:
-                        val = price[head[b]] - cost[b]
-                        if val > best:
-                            best = val
-                if best == -INF:
-                    return False
-                price[u] = best - eps
-                if price[u] < floor[u]:
+                if not _relabel(first, head, cap, cost, price, u, eps) or price[u] < floor[u]:
                     return False
                 current[u] = first[u]
                 relabels += 1

@@ -45,9 +45,9 @@ from .precedence import PrefixIndex
 
 __all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution"]
 
-_ALPHA = 16  # cost-scaling factor between phases
+_ALPHA = 32  # cost-scaling factor between phases
 _WARM_DIV = 1024  # a warm start begins near the final precision
-_REPAIR_LIMIT = 1000  # arcs priced in at once: re-optimise by shortest paths up to this
+_REPAIR_LIMIT = 100  # arcs priced in at once: re-optimise by shortest paths up to this
 _CANDIDATE_GROUPS = 8  # first round: link arcs from each successor's cheapest groups
 
 
@@ -103,7 +103,7 @@ def _kernels():
         jit = numba_jit()
         wrap = (lambda f: f) if jit is None else jit
         # Helpers first: the compiled kernels call them through module globals.
-        for name in ("_heap_push", "_heap_pop", "update_prices"):
+        for name in ("_heap_push", "_heap_pop", "_relabel", "_has_admissible", "update_prices"):
             setattr(_flow_kernel, name, wrap(getattr(_flow_kernel, name)))
         _KERNELS = (wrap(_flow_kernel.cost_scaling), wrap(_flow_kernel.tighten_prices),
                     wrap(_flow_kernel.cancel_one_unit), wrap(_flow_kernel.repair))
