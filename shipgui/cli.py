@@ -59,11 +59,7 @@ def _add_common(p: argparse.ArgumentParser) -> None:
                    help=f"average speed for estimated travel (default {DEFAULT_SPEED_KMH:g})")
     p.add_argument("--circuity", type=float, default=DEFAULT_CIRCUITY,
                    help=f"road distance / straight distance (default {DEFAULT_CIRCUITY:g})")
-    p.add_argument("--least-deadhead", action="store_true",
-                   help="among minimum-fleet plans, pick one with the least empty driving "
-                   "(exact; slower on very large days)")
-    p.add_argument("--tradeoff", metavar="N", type=int, default=5,
-                   help="with --least-deadhead: also price up to N extra vehicles (default 5)")
+    _add_deadhead(p)
     p.add_argument("--vehicle-cost", metavar="COST", type=float,
                    help="cost of one vehicle-day, to find the cheapest fleet size")
     p.add_argument("--empty-hour-cost", metavar="COST", type=float,
@@ -73,6 +69,14 @@ def _add_common(p: argparse.ArgumentParser) -> None:
     p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx",
                    help="write one row per job with vehicle and sequence (for spreadsheets)")
     p.add_argument("--verbose", action="store_true", help="print timings per stage")
+
+
+def _add_deadhead(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--least-deadhead", action=argparse.BooleanOptionalAction, default=True,
+                   help="among minimum-fleet plans, pick one with the least empty driving "
+                   "(default; --no-least-deadhead keeps any minimum-fleet routes)")
+    p.add_argument("--tradeoff", metavar="N", type=int, default=5,
+                   help="also price up to N extra vehicles (default 5; 0 for none)")
 
 
 def _settings(args: argparse.Namespace) -> Settings:
@@ -166,9 +170,12 @@ def _summary(plan: Plan, label: str) -> str:
     ids = plan.certificate_ids()
     for k in range(0, len(ids), 10):
         lines.append("  " + " ".join(ids[k:k + 10]))
-    lines.append(f"Empty driving: {format_duration(plan.deadhead_seconds)} in all")
-    for vehicles, dead in plan.tradeoff[1:]:
-        lines.append(f"  with at most {vehicles} vehicles: {format_duration(dead)} empty driving")
+    least = f" (the least possible with {plan.vehicles} vehicles)" if plan.least_deadhead else ""
+    lines.append(f"Empty driving: {format_duration(plan.deadhead_seconds)} in all{least}")
+    for (vehicles, dead), (_, exact) in zip(plan.tradeoff[1:], plan.tradeoff_exact[1:]):
+        note = "" if exact == dead else f" (all {vehicles} out: {format_duration(exact)})"
+        lines.append(f"  with at most {vehicles} vehicles: {format_duration(dead)} "
+                     f"empty driving{note}")
     for w in day.warnings:
         lines.append(f"Warning: {w}")
     for number, route in enumerate(plan.routes[:5], start=1):
@@ -204,8 +211,7 @@ def _run_solve(args: argparse.Namespace, files: dict[str, str | None], settings:
     day = load_day(files["jobs"], files.get("sites"), files.get("travel"), settings=settings,
                    **options)
     t1 = time.perf_counter()
-    plan = solve_day(day, least_deadhead=args.least_deadhead,
-                     tradeoff=max(0, args.tradeoff) if args.least_deadhead else 0)
+    plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=max(0, args.tradeoff))
     if not plan.verified:
         print(_summary(plan, label), file=sys.stderr)
         return 1
@@ -241,8 +247,7 @@ def cmd_demo(argv: list[str]) -> int:
     p.add_argument("--pdf", metavar="OUT.pdf")
     p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx")
     p.add_argument("--verbose", action="store_true")
-    p.add_argument("--least-deadhead", action="store_true")
-    p.add_argument("--tradeoff", metavar="N", type=int, default=5)
+    _add_deadhead(p)
     p.add_argument("--vehicle-cost", metavar="COST", type=float)
     p.add_argument("--empty-hour-cost", metavar="COST", type=float)
     args = p.parse_args(argv)

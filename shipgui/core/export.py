@@ -32,8 +32,11 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         routes.append(entry)
     extra: dict = {}
     if plan.tradeoff:
-        extra["tradeoff"] = [{"vehicles": k, "deadhead_minutes": _minutes(d)}
-                             for k, d in plan.tradeoff]
+        # deadhead_minutes: least with at most k vehicles (never rises with k);
+        # exactly_k_deadhead_minutes: least with all k vehicles out.
+        extra["tradeoff"] = [{"vehicles": k, "deadhead_minutes": _minutes(d),
+                              "exactly_k_deadhead_minutes": _minutes(e)}
+                             for (k, d), (_, e) in zip(plan.tradeoff, plan.tradeoff_exact)]
     if cost_model is not None:
         extra["cost_model"] = cost_model
     return {
@@ -42,6 +45,7 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         "certificate": {"jobs": plan.certificate_ids()},
         "verified": bool(plan.verified),
         "deadhead_minutes": _minutes(plan.deadhead_seconds),
+        "least_deadhead": plan.least_deadhead,
         "jobs": day.n,
         "plan_date": day.plan_date.isoformat() if day.plan_date else None,
         "fingerprint": day.fingerprint,

@@ -48,7 +48,7 @@ __all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution"]
 _ALPHA = 32  # cost-scaling factor between phases
 _WARM_DIV = 1024  # a warm start begins near the final precision
 _REPAIR_LIMIT = 100  # arcs priced in at once: re-optimise by shortest paths up to this
-_CANDIDATE_GROUPS = 8  # first round: link arcs from each successor's cheapest groups
+_CANDIDATE_GROUPS = 12  # first round: link arcs from each successor's cheapest groups
 
 
 @dataclass(frozen=True, eq=False)

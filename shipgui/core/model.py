@@ -157,7 +157,12 @@ class Plan:
     kernel: str = ""
     deadhead_seconds: int = 0
     route_deadhead_seconds: tuple[int, ...] = ()
+    # (vehicles, least empty driving with at most that many vehicles), from the
+    # minimum fleet up; and the same with exactly that many vehicles out (it can
+    # rise with a depot, where each vehicle also drives out and back).
     tradeoff: tuple[tuple[int, int], ...] = ()
+    tradeoff_exact: tuple[tuple[int, int], ...] = ()
+    least_deadhead: bool = False  # routes chosen for least empty driving
     verification_failures: tuple[str, ...] = ()
 
     @property

@@ -27,17 +27,19 @@ class Cancelled(Exception):
     """The caller asked the solve to stop."""
 
 
-def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = False,
-              tradeoff: int = 0,
+def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = True,
+              tradeoff: int = 5,
               progress: Callable[[str], None] | None = None,
               cancelled: Callable[[], bool] | None = None) -> Plan:
     """Minimum fleet, routes and certificate for ``day``, independently verified.
 
-    With ``least_deadhead`` the routes are, among all minimum-fleet plans, one
-    with the least empty driving (:mod:`shipgui.core.least_deadhead`; exact, but
-    not yet fast enough on very large days to be the default); ``tradeoff``
-    extra vehicles are then priced: ``plan.tradeoff`` lists (vehicles, least
-    empty driving with at most that many vehicles).
+    With ``least_deadhead`` (the default) the routes are, among all
+    minimum-fleet plans, one with the least empty driving
+    (:mod:`shipgui.core.least_deadhead`), and ``tradeoff`` extra vehicles are
+    priced: ``plan.tradeoff`` lists (vehicles, least empty driving with at most
+    that many vehicles), ``plan.tradeoff_exact`` the same with exactly that many.
+    Without it the routes are those of the maximum matching (any minimum-fleet
+    plan) and there is no trade-off.
     ``progress`` is called with a stage name between steps; when
     ``cancelled()`` turns true the solve stops with :class:`Cancelled`.
     Running time O(phases * n * sites); memory O(n * sites).
@@ -58,7 +60,7 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Fal
     t = stage("relation", t)
     routes: list[tuple[int, ...]] = []
     certificate: list[int] = []
-    savings: list[int] = []
+    savings: list[int] = []  # per extra vehicle in one class; can be negative
     for index in indexes:
         matching = maximum_matching(index, kernel=kernel, day=day)
         t = stage("matching", t)
@@ -79,27 +81,39 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Fal
     failures = check_plan(day, routes, certificate)
     stage("verification", t)
     total, per_route = plan_deadhead(day, routes)
+    exact = _merge_tradeoff(len(routes), total, savings, tradeoff if least_deadhead else 0)
     return Plan(day, tuple(routes), tuple(certificate), not failures, timings, kernel,
                 deadhead_seconds=total, route_deadhead_seconds=per_route,
-                tradeoff=_merge_tradeoff(len(routes), total, savings, tradeoff),
-                verification_failures=tuple(failures))
+                tradeoff=_at_most(exact), tradeoff_exact=exact,
+                least_deadhead=least_deadhead, verification_failures=tuple(failures))
 
 
 def _merge_tradeoff(vehicles: int, deadhead: int, savings: list[int],
                     extra: int) -> tuple[tuple[int, int], ...]:
-    """Least empty driving with at most vehicles + t vehicles, t = 0..extra.
+    """Least empty driving with exactly vehicles + t vehicles, t = 0..extra.
 
     Each class's saving per extra vehicle does not grow (its cost curve is
-    convex), so taking the largest savings over all classes first is optimal;
-    a saving that is not positive is not taken ("at most" k vehicles).
+    convex: a min-cost flow value; Ahuja, Magnanti & Orlin, Network Flows, 1993,
+    ch. 9), so taking the largest savings over all classes first is optimal.
+    A saving is negative when a vehicle's drive out and back costs more than
+    the link it replaces.  Stops when no class can split a route any more.
     """
     if extra <= 0:
         return ()
-    best = sorted((s for s in savings if s > 0), reverse=True)
+    best = sorted(savings, reverse=True)
     points = [(vehicles, deadhead)]
-    for t in range(1, extra + 1):
-        deadhead -= best[t - 1] if t - 1 < len(best) else 0
-        points.append((vehicles + t, deadhead))
+    for saving in best[:extra]:
+        deadhead -= saving
+        points.append((points[-1][0] + 1, deadhead))
+    return tuple(points)
+
+
+def _at_most(exact: tuple[tuple[int, int], ...]) -> tuple[tuple[int, int], ...]:
+    """From exactly k vehicles to at most k: the running minimum."""
+    points, low = [], None
+    for vehicles, deadhead in exact:
+        low = deadhead if low is None else min(low, deadhead)
+        points.append((vehicles, low))
     return tuple(points)
 
 

@@ -7,6 +7,7 @@ import numpy as np
 import pytest
 
 from shipgui.core import Job, Settings, build_day, can_follow_matrix, solve_day
+from shipgui.core.deadhead import plan_deadhead
 from shipgui.core.least_deadhead import class_costs, least_cost_links
 from shipgui.core.matching import maximum_matching
 from shipgui.core.precedence import class_indexes
@@ -133,7 +134,8 @@ def test_plan_deadhead_is_least_by_brute_force(seed):
 
 def test_least_deadhead_never_worse_than_bare_matching():
     day = random_day(120, 6, seed=3)
-    bare, least = solve_day(day), solve_day(day, least_deadhead=True)
+    bare, least = solve_day(day, least_deadhead=False), solve_day(day)
+    assert least.least_deadhead and not bare.least_deadhead and bare.tradeoff == ()
     assert least.vehicles == bare.vehicles and least.verified
     assert least.deadhead_seconds <= bare.deadhead_seconds
 
@@ -171,10 +173,12 @@ def test_depot_pull_out_and_pull_in_counted():
 
 @pytest.mark.parametrize("seed", range(15))
 def test_plan_tradeoff_by_brute_force_over_classes(seed):
-    # Brute force over every chain cover (any size) of a small two-class day:
-    # least empty driving with at most k vehicles, for k = minimum .. minimum + 3.
+    # Brute force over every chain cover (any size) of a small two-class day,
+    # half of them with a depot: least empty driving with exactly and with at
+    # most k vehicles, for k = minimum .. minimum + 3.
     rng = np.random.default_rng(900 + seed)
-    day = random_day(int(rng.integers(2, 8)), 3, seed=seed, classes=2)
+    settings = Settings(depot="S0") if seed % 2 else Settings()
+    day = random_day(int(rng.integers(2, 8)), 3, seed=seed, classes=2, settings=settings)
     plan = solve_day(day, least_deadhead=True, tradeoff=3)
     follows = can_follow_matrix(day).toarray()
     best: dict[int, int] = {}
@@ -183,9 +187,24 @@ def test_plan_tradeoff_by_brute_force_over_classes(seed):
         if len(targets) != len(set(targets)):
             continue
         vehicles = day.n - len(targets)
-        dead = sum(int(day.travel[day.destination[i], day.origin[j]])
-                   for i, j in enumerate(succ) if j >= 0)
+        dead = plan_deadhead(day, _routes_of(succ))[0]
         best[vehicles] = min(best.get(vehicles, dead), dead)
     assert plan.tradeoff[0] == (plan.vehicles, plan.deadhead_seconds)
+    assert plan.tradeoff_exact[0] == plan.tradeoff[0]
     for vehicles, dead in plan.tradeoff:
         assert dead == min(v for k, v in best.items() if k <= vehicles)
+    for vehicles, dead in plan.tradeoff_exact:
+        assert dead == best[vehicles]
+    assert all(a[1] >= b[1] for a, b in zip(plan.tradeoff, plan.tradeoff[1:]))
+
+
+def _routes_of(succ):
+    """Routes (tuples of jobs) from a successor assignment."""
+    heads = set(range(len(succ))) - {j for j in succ if j >= 0}
+    routes = []
+    for k in sorted(heads):
+        route = [k]
+        while succ[route[-1]] >= 0:
+            route.append(succ[route[-1]])
+        routes.append(tuple(route))
+    return routes
