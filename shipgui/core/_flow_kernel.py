@@ -328,32 +328,36 @@ def cancel_one_unit(first, head, rev, cap, cost, price, source, sink):
 
 
 def repair(first, head, rev, cap, cost, price, excess):
-    """Route every excess to a deficit by successive shortest paths, in place.
+    """Route every excess to a deficit along shortest paths, in place.
 
-    Needs reduced costs >= 0 on residual arcs and keeps them so (Ahuja,
-    Magnanti & Orlin 1993, section 9.7), so the result is optimal.  Cheap when
-    few units are out of balance.  Returns False if some excess cannot reach
-    a deficit.
+    Primal-dual: a Dijkstra from all excesses to the nearest deficit updates
+    the prices, then depth-first searches push as many units as they can along
+    arcs of zero reduced cost (Ahuja, Magnanti & Orlin 1993, section 9.8).
+    Needs reduced costs >= 0 on residual arcs and keeps them so, so the result
+    is optimal.  Cheap when few units are out of balance.  Returns False if
+    some excess cannot reach a deficit.
     """
     n = first.shape[0] - 1
     dist = np.empty(n, dtype=np.int64)
-    via = np.empty(n, dtype=np.int64)
     done = np.empty(n, dtype=np.bool_)
+    dead = np.empty(n, dtype=np.bool_)
+    on_path = np.zeros(n, dtype=np.bool_)
+    current = np.empty(n, dtype=np.int64)
+    path = np.empty(n, dtype=np.int64)  # arcs of the search path
+    stack = np.empty(n + 1, dtype=np.int64)  # nodes of the search path
     keys = np.empty(cap.shape[0] + n + 1, dtype=np.int64)
     nodes = np.empty(cap.shape[0] + n + 1, dtype=np.int64)
     while True:
         size = 0
         for v in range(n):
             dist[v] = INF
-            via[v] = -1
             done[v] = False
             if excess[v] > 0:
                 dist[v] = 0
                 size = _heap_push(keys, nodes, size, np.int64(0), v)
         if size == 0:
             return True
-        target = -1
-        reach = np.int64(0)
+        reach = np.int64(-1)
         while size > 0:
             d = keys[0]
             u = nodes[0]
@@ -362,7 +366,6 @@ def repair(first, head, rev, cap, cost, price, excess):
                 continue
             done[u] = True
             if excess[u] < 0:
-                target = u
                 reach = d
                 break
             pu = price[u]
@@ -372,26 +375,56 @@ def repair(first, head, rev, cap, cost, price, excess):
                     nd = d + cost[a] + pu - price[v]
                     if nd < dist[v]:
                         dist[v] = nd
-                        via[v] = a
                         size = _heap_push(keys, nodes, size, nd, v)
-        if target < 0:
+        if reach < 0:
             return False
-        delta = -excess[target]
-        v = target
-        while via[v] >= 0:
-            a = via[v]
-            if cap[a] < delta:
-                delta = cap[a]
-            v = head[rev[a]]
-        if excess[v] < delta:
-            delta = excess[v]
-        excess[v] -= delta
-        excess[target] += delta
-        v = target
-        while via[v] >= 0:
-            a = via[v]
-            cap[a] -= delta
-            cap[rev[a]] += delta
-            v = head[rev[a]]
         for v in range(n):
             price[v] += dist[v] if dist[v] < reach else reach
+            current[v] = first[v]
+            dead[v] = False
+        # Push along zero-reduced-cost arcs from every excess while paths remain.
+        for s in range(n):
+            while excess[s] > 0 and not dead[s]:
+                top = 0
+                stack[0] = s
+                on_path[s] = True
+                found = False
+                while top >= 0:
+                    u = stack[top]
+                    if u != s and excess[u] < 0:
+                        found = True
+                        break
+                    pu = price[u]
+                    moved = False
+                    while current[u] < first[u + 1]:
+                        a = current[u]
+                        v = head[a]
+                        if cap[a] > 0 and not dead[v] and not on_path[v] \
+                                and cost[a] + pu - price[v] == 0:
+                            path[top] = a
+                            top += 1
+                            stack[top] = v
+                            on_path[v] = True
+                            moved = True
+                            break
+                        current[u] += 1
+                    if not moved:
+                        dead[u] = True
+                        on_path[u] = False
+                        top -= 1
+                        if top >= 0:
+                            current[stack[top]] += 1
+                if not found:
+                    break
+                t = stack[top]
+                delta = excess[s] if excess[s] < -excess[t] else -excess[t]
+                for k in range(top):
+                    if cap[path[k]] < delta:
+                        delta = cap[path[k]]
+                for k in range(top):
+                    cap[path[k]] -= delta
+                    cap[rev[path[k]]] += delta
+                excess[s] -= delta
+                excess[t] += delta
+                for k in range(top + 1):
+                    on_path[stack[k]] = False

@@ -269,7 +269,7 @@ class _PricedFlow:
     def _price_in(self) -> None:
         """Add left-out arcs with a negative reduced cost and re-optimise until
         there are none: many at once by a warm-started cost scaling, a few by
-        successive shortest paths from the exact prices."""
+        primal-dual shortest paths from the exact prices."""
         while True:
             priced = self._priced_out()
             if priced is None:

@@ -1,22 +1,113 @@
-"""The always-visible answer: vehicles needed, empty driving, verified, solving state."""
+"""The always-visible answer: vehicles needed, empty driving, verified, solving state.
+
+When the plan carries a fleet / empty-driving trade-off (``plan.tradeoff``), the
+empty-driving figure says it is the least for the fleet, a short line says what
+one more vehicle would save, and a popup (also the figure's tooltip) lists the
+whole trade-off.
+"""
 
 from __future__ import annotations
 
-from PySide6.QtCore import Qt
+import html
+import math
+
+from PySide6.QtCore import QPoint, Qt
 from PySide6.QtGui import QAction
-from PySide6.QtWidgets import QFrame, QHBoxLayout, QLabel, QProgressBar, QToolButton, QWidget
+from PySide6.QtWidgets import (
+    QFrame,
+    QHBoxLayout,
+    QLabel,
+    QMenu,
+    QProgressBar,
+    QSizePolicy,
+    QToolButton,
+    QVBoxLayout,
+    QWidget,
+    QWidgetAction,
+)
 
 from shipgui.core import Plan
 from shipgui.core.clock import format_duration
 
-__all__ = ["AnswerBar", "hours_minutes"]
+__all__ = ["AnswerBar", "hours_minutes", "saving_text", "tradeoff_rows", "tradeoff_html"]
 
 
 hours_minutes = format_duration  # "3 h 05 min" style, rounded up to the minute
 
+LINK_COLOUR = "#2f5f8f"
+TRADEOFF_EXTRA = 5  # the list goes from the minimum fleet to this many more vehicles
+
+
+def _shown_minutes(seconds: int) -> int:
+    return math.ceil(seconds / 60)  # as format_duration shows it
+
+
+def saving_text(before: int, after: int) -> str:
+    """Empty driving saved going from ``before`` to ``after`` seconds, as a reader
+    checks it against the two figures shown (each rounded up to the minute):
+    '−39 min', '−1 h 05 min'; '−<1 min' for a saving the rounding hides; '' for none."""
+    if after >= before:
+        return ""
+    minutes = _shown_minutes(before) - _shown_minutes(after)
+    return f"−{format_duration(minutes * 60)}" if minutes > 0 else "−<1 min"
+
+
+def tradeoff_rows(plan: Plan) -> list[tuple[int, str, str, str]]:
+    """(vehicles, least empty driving with at most that many, saving against the
+    plan, with exactly that many where that is more, else ''), minimum fleet first;
+    none unless the plan's routes are the least empty driving for its fleet."""
+    points = plan.tradeoff[:TRADEOFF_EXTRA + 1] if plan.least_deadhead else ()
+    if not points:
+        return []
+    exact = dict(plan.tradeoff_exact)
+    base = points[0][1]
+    rows = []
+    for vehicles, deadhead in points:
+        exactly = exact.get(vehicles)
+        rows.append((vehicles, format_duration(deadhead), saving_text(base, deadhead),
+                     format_duration(exactly) if exactly is not None and exactly != deadhead
+                     else ""))
+    return rows
+
+
+def tradeoff_html(plan: Plan) -> str:
+    """The whole trade-off as a small rich-text table (popup and tooltip); '' for none."""
+    return _table_html(plan, tradeoff_rows(plan))
+
+
+def _table_html(plan: Plan, rows: list[tuple[int, str, str, str]]) -> str:
+    if not rows:
+        return ""
+    with_exact = any(row[3] for row in rows)
+    head = ["Vehicles", "Least empty driving", "Saved"]
+    if with_exact:
+        head.append("Exactly this many out")
+    aligns = ("left", "right", "right", "right")
+    pad = "padding: 1px 8px; white-space: nowrap;"
+    lines = ["<tr>" + "".join(f'<th style="{pad}" align="{a}">{h}</th>'
+                              for a, h in zip(aligns, head)) + "</tr>"]
+    for k, (vehicles, deadhead, saved, exactly) in enumerate(rows):
+        cells = [f"{vehicles} (this plan)" if k == 0 else str(vehicles), deadhead,
+                 saved or "–", exactly][:len(head)]
+        lines.append("<tr>" + "".join(f'<td style="{pad}" align="{a}">{c}</td>'
+                                      for a, c in zip(aligns, cells)) + "</tr>")
+    minimum = rows[0][0]
+    notes = [f"The routes shown use {minimum} vehicles, the fewest possible, and have the "
+             f"least empty driving any {minimum}-vehicle plan can have.",
+             "Each row: the least empty driving with at most that many vehicles, and "
+             "what that saves against this plan."]
+    if with_exact:
+        depot = plan.day.settings.depot
+        where = f" from {html.escape(plan.day.site_label(depot))}" if depot else ""
+        notes.append("Where putting exactly that many vehicles on the road costs more "
+                     f"(each drives out{where} and back), that figure is shown too.")
+    return ("<p style='white-space: nowrap;'><b>Less empty driving with more "
+            "vehicles</b></p><table cellspacing='0'>" + "".join(lines) + "</table>"
+            + "".join(f"<p>{note}</p>" for note in notes))
+
 
 class _Figure(QWidget):
-    """A big value with a small caption under it."""
+    """A big value with a small caption beside it (and room for a line under the caption)."""
 
     def __init__(self, caption: str, parent=None) -> None:
         super().__init__(parent)
@@ -24,11 +115,16 @@ class _Figure(QWidget):
         self.value.setObjectName("figureValue")
         self.caption = QLabel(caption)
         self.caption.setObjectName("figureCaption")
+        self.notes = QVBoxLayout()
+        self.notes.setContentsMargins(0, 0, 0, 0)
+        self.notes.setSpacing(0)
+        self.notes.addWidget(self.caption)
         layout = QHBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         layout.setSpacing(6)
         layout.addWidget(self.value)
-        layout.addWidget(self.caption)
+        layout.addLayout(self.notes)
+        self.setSizePolicy(QSizePolicy.Policy.Fixed, QSizePolicy.Policy.Preferred)
 
 
 class AnswerBar(QFrame):
@@ -37,6 +133,19 @@ class AnswerBar(QFrame):
         self.setObjectName("answerBar")
         self.vehicles = _Figure("vehicles needed")
         self.deadhead = _Figure("empty driving")
+        # What more vehicles would save; shown only for a plan with a trade-off.
+        self.saving = QLabel()
+        self.saving.setObjectName("savingLink")
+        self.saving.setTextFormat(Qt.TextFormat.RichText)
+        self.saving.setTextInteractionFlags(Qt.TextInteractionFlag.LinksAccessibleByMouse
+                                            | Qt.TextInteractionFlag.LinksAccessibleByKeyboard)
+        self.saving.setFocusPolicy(Qt.FocusPolicy.TabFocus)
+        self.saving.setVisible(False)
+        self.saving.linkActivated.connect(lambda _link: self.show_tradeoff())
+        self.deadhead.notes.addWidget(self.saving)
+        self.tradeoff_text = ""  # the whole trade-off, rich text
+        self.tradeoff_wide = False  # with the exactly-k column
+        self.tradeoff_popup: QMenu | None = None  # made anew each time, sized to the text
         self.verified = QLabel("✓ verified")
         self.verified.setObjectName("verifiedBadge")
         self.verified.setToolTip("An independent check confirmed that every job is covered "
@@ -45,9 +154,16 @@ class AnswerBar(QFrame):
         self.status = QLabel("")
         self.status.setObjectName("solveStatus")
         self.status.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        # Takes the room left and wraps in a narrow window rather than widening it.
+        self.status.setWordWrap(True)
+        self.status.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        self.status.setSizePolicy(QSizePolicy.Policy.Ignored, QSizePolicy.Policy.Preferred)
+        self.status.setMinimumWidth(  # the longest part that does not wrap
+            self.status.fontMetrics().horizontalAdvance("solved in 00000 ms") + 4)
         self.progress = QProgressBar()
         self.progress.setRange(0, 0)
         self.progress.setMaximumWidth(120)
+        self.progress.setMinimumWidth(48)  # solving must not widen a narrow window
         self.progress.setTextVisible(False)
         self.progress.setVisible(False)
         self.cancel = QToolButton()
@@ -58,9 +174,8 @@ class AnswerBar(QFrame):
         layout.setSpacing(18)
         layout.addWidget(self.vehicles)
         layout.addWidget(self.deadhead)
-        layout.addWidget(self.verified)
-        layout.addStretch(1)
-        layout.addWidget(self.status)
+        layout.addWidget(self.verified, 0, Qt.AlignmentFlag.AlignVCenter)
+        layout.addWidget(self.status, 1)
         layout.addWidget(self.progress)
         layout.addWidget(self.cancel)
         self.setStyleSheet(
@@ -74,11 +189,57 @@ class AnswerBar(QFrame):
     def show_plan(self, plan: Plan, seconds: float) -> None:
         self.vehicles.value.setText(str(plan.vehicles))
         self.deadhead.value.setText(hours_minutes(plan.deadhead_seconds))
+        self._show_tradeoff(plan)
         self.verified.setVisible(bool(plan.verified))
         self.set_busy(False)
         note = "" if plan.verified else "  The independent check FAILED."
-        self.status.setText(f"Up to date · {plan.day.n} jobs · solved in "
-                            f"{seconds * 1000:.0f} ms{note}")
+        # No-break spaces: a narrow bar wraps between the parts, not inside them.
+        parts = ("Up to date", f"{plan.day.n} jobs", f"solved in {seconds * 1000:.0f} ms")
+        self.status.setText(" · ".join(p.replace(" ", "\u00a0") for p in parts) + note)
+
+    def _show_tradeoff(self, plan: Plan | None) -> None:
+        """The least-for-this-fleet note, the one-more-vehicle line and the list;
+        the plain caption when there is no trade-off."""
+        rows = tradeoff_rows(plan) if plan is not None else []
+        table = _table_html(plan, rows) if rows else ""
+        self.tradeoff_text = table
+        self.tradeoff_wide = any(row[3] for row in rows)
+        self.deadhead.setToolTip(table)
+        if not table:
+            self.deadhead.caption.setText("empty driving")
+            self.saving.setVisible(False)
+            return
+        (vehicles, least), *more = plan.tradeoff
+        self.deadhead.caption.setText(f"empty driving, least possible with {vehicles} vehicles")
+        if not more:  # every job has a vehicle of its own: nothing to trade
+            self.saving.setVisible(False)
+            return
+        saved = saving_text(least, more[0][1])
+        line = (f"1 more vehicle: {saved} empty driving" if saved
+                else "more vehicles would not reduce it")
+        self.saving.setText(f'<a href="tradeoff" style="color: {LINK_COLOUR}; '
+                            f'text-decoration: none;">{line} ▾</a>')
+        self.saving.setVisible(True)
+
+    def show_tradeoff(self) -> None:
+        """Open the trade-off list under the one-more-vehicle line."""
+        if not self.saving.isVisible():
+            return
+        if self.tradeoff_popup is not None:
+            self.tradeoff_popup.close()
+            self.tradeoff_popup.deleteLater()
+        label = QLabel(self.tradeoff_text)
+        label.setObjectName("tradeoffTable")
+        label.setTextFormat(Qt.TextFormat.RichText)
+        label.setWordWrap(True)
+        label.setFixedWidth(560 if self.tradeoff_wide else 440)
+        label.setContentsMargins(10, 8, 10, 10)
+        menu = QMenu(self)
+        holder = QWidgetAction(menu)
+        holder.setDefaultWidget(label)
+        menu.addAction(holder)
+        self.tradeoff_popup = menu
+        menu.popup(self.saving.mapToGlobal(QPoint(0, self.saving.height())))
 
     def show_stale(self, why: str) -> None:
         """Keep the figures but say they no longer match the inputs."""
@@ -89,13 +250,15 @@ class AnswerBar(QFrame):
     def show_nothing(self, why: str) -> None:
         self.vehicles.value.setText("–")
         self.deadhead.value.setText("–")
+        self._show_tradeoff(None)
         self.verified.setVisible(False)
         self.set_busy(False)
         self.status.setText(why)
 
     def set_busy(self, busy: bool, stage: str = "") -> None:
+        if busy:  # first, so the bar never needs the badge and the progress at once
+            self.verified.setVisible(False)
         self.progress.setVisible(busy)
         self.cancel.setVisible(busy)
         if busy:
-            self.verified.setVisible(False)
             self.status.setText(f"Solving… {stage}" if stage else "Solving…")

@@ -70,6 +70,8 @@ def styles() -> dict[str, ParagraphStyle]:
         "cell": _style("cell", 8.5, leading=10.5),
         "cell_small": _style("cell_small", 7.5, leading=9),
         "cell_head": _style("cell_head", 7.5, bold=True, leading=9),
+        "cell_head_right": _style("cell_head_right", 7.5, bold=True, leading=9,
+                                  alignment=TA_RIGHT),
         "cell_right": _style("cell_right", 8.5, leading=10.5, alignment=TA_RIGHT),
         "done": _style("done", 8.5, leading=17),
         "cell_center": _style("cell_center", 8.5, leading=10.5, alignment=TA_CENTER),

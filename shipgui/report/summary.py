@@ -1,6 +1,9 @@
-"""The summary section: the plan's key facts, warnings and the timeline of all vehicles."""
+"""The summary section: the plan's key facts, what more vehicles would save, warnings
+and the timeline of all vehicles."""
 
 from __future__ import annotations
+
+import math
 
 from reportlab.platypus import Flowable, Paragraph, Spacer, Table, TableStyle
 
@@ -8,18 +11,21 @@ from shipgui.core import format_clock
 from shipgui.core.model import Plan
 
 from .pages import SectionStart
-from .styles import FRAME_WIDTH, LIGHT_GREY, heading, styles
+from .styles import FRAME_WIDTH, LIGHT_GREY, grid_table_style, heading, styles
 from .text import duration_text, esc, plan_date_text, source_names
 from .timeline import Timeline, timeline_rows
 
-__all__ = ["build_summary", "MAX_WARNINGS_SHOWN"]
+__all__ = ["build_summary", "MAX_WARNINGS_SHOWN", "EXTRA_VEHICLES_SHOWN"]
 
 # Warnings beyond this many are counted, not printed: the summary is one page of facts.
 MAX_WARNINGS_SHOWN = 8
+# The trade-off table shows the minimum fleet and up to this many vehicles more.
+EXTRA_VEHICLES_SHOWN = 5
 
 
 def build_summary(plan: Plan) -> list[Flowable]:
-    """The first section: facts about the plan, warnings, and the timeline picture.
+    """The first section: facts about the plan, what more vehicles would save (when
+    the plan carries a trade-off), warnings, and the timeline picture.
 
     The timeline continues on further pages when there are more vehicles than fit.
     """
@@ -30,10 +36,10 @@ def build_summary(plan: Plan) -> list[Flowable]:
                      continued="Vehicle plan \u2014 timeline (continued)"),
         Paragraph("Vehicle plan" + (f" for {day.plan_date.isoformat()}" if day.plan_date
                                     else ""), st["title"]),
-        Paragraph(f"{plan.vehicles} vehicles cover all {day.n} jobs. No plan with fewer "
-                  "vehicles exists: the proof is on the last pages.", st["body"]),
+        Paragraph(_intro(plan), st["body"]),
         _facts_table(plan),
         *_warnings(day.warnings),
+        *_tradeoff(plan),
         *heading("Timeline of all vehicles"),
         Paragraph("One row per vehicle, numbered as on the route sheets. Hours run along "
                   "the top and bottom; 24 and later are the next morning.", st["small"]),
@@ -41,6 +47,13 @@ def build_summary(plan: Plan) -> list[Flowable]:
         Timeline(timeline_rows(plan)) if plan.routes else Paragraph("No jobs.", st["body"]),
     ]
     return story
+
+
+def _intro(plan: Plan) -> str:
+    verb = "covers" if plan.vehicles == 1 else "cover"
+    jobs = "the 1 job" if plan.day.n == 1 else f"all {plan.day.n} jobs"
+    return (f"{_vehicles_text(plan.vehicles)} {verb} {jobs}. No plan with fewer vehicles "
+            "exists: the proof is on the last pages.")
 
 
 def _facts(plan: Plan) -> list[tuple[str, str]]:
@@ -54,7 +67,7 @@ def _facts(plan: Plan) -> list[tuple[str, str]]:
         ("Vehicles needed", f"<b>{plan.vehicles}</b>"),
         ("Jobs", str(day.n)),
         ("Total job time", duration_text(job_time)),
-        ("Total empty driving", duration_text(plan.deadhead_seconds)),
+        ("Total empty driving", _empty_driving_text(plan)),
         ("Turnaround between jobs", duration_text(day.settings.turnaround)),
     ]
     settings = day.settings
@@ -69,6 +82,20 @@ def _facts(plan: Plan) -> list[tuple[str, str]]:
     facts.append(("Independent check", "passed: every job is on exactly one route, every "
                   "route can be driven, and the proof holds"))
     return facts
+
+
+def _vehicles_text(count: int) -> str:
+    return f"{count} vehicle" if count == 1 else f"{count} vehicles"
+
+
+def _empty_driving_text(plan: Plan) -> str:
+    text = duration_text(plan.deadhead_seconds)
+    if plan.least_deadhead and plan.vehicles:
+        text += (f"<br/><font size=8>the least possible with "
+                 f"{_vehicles_text(plan.vehicles)}</font>")
+    elif plan.vehicles:
+        text += "<br/><font size=8>not minimised: any plan with this many vehicles</font>"
+    return text
 
 
 def _facts_table(plan: Plan) -> Table:
@@ -97,3 +124,73 @@ def _warnings(warnings: tuple[str, ...]) -> list[Flowable]:
         items.append(Paragraph(f"\u2026 and {hidden} more warnings, listed when the plan "
                                "is solved.", st["body"]))
     return [*heading("Warnings", room=30), *items]
+
+
+def _minutes(seconds: int) -> int:
+    """Whole minutes, rounded up as :func:`duration_text` prints them."""
+    return math.ceil(seconds / 60)
+
+
+def _tradeoff_rows(plan: Plan) -> list[tuple[int, int, int | None]]:
+    """(vehicles, least empty driving with at most that many, with exactly that many)
+    for the minimum fleet and up to :data:`EXTRA_VEHICLES_SHOWN` vehicles more."""
+    exact = dict(plan.tradeoff_exact)
+    last = plan.vehicles + EXTRA_VEHICLES_SHOWN
+    return [(vehicles, deadhead, exact.get(vehicles))
+            for vehicles, deadhead in plan.tradeoff if vehicles <= last]
+
+
+def _tradeoff(plan: Plan) -> list[Flowable]:
+    """How much empty driving each extra vehicle would save; nothing without a trade-off.
+
+    Savings are differences of the printed (rounded) figures, so the columns add up
+    as printed.  The "exactly this many" column is shown only when it prints
+    differently from the "at most" column in some row.
+    """
+    rows = _tradeoff_rows(plan)
+    if not rows or plan.vehicles == 0:
+        return []
+    st = styles()
+    fewest, least = rows[0][0], _minutes(rows[0][1])
+    show_exact = any(exact is not None and _minutes(exact) != _minutes(deadhead)
+                     for _, deadhead, exact in rows)
+    head = ["Vehicles (at most)", "Least empty driving",
+            f"Saving vs {_vehicles_text(fewest)}"]
+    if show_exact:
+        head.append("Exactly this many out")
+    table_rows = [[Paragraph(head[0], st["cell_head"]),
+                   *(Paragraph(h, st["cell_head_right"]) for h in head[1:])]]
+    for vehicles, deadhead, exact in rows:
+        this_plan = vehicles == fewest
+        cells = [f"{vehicles} (this plan)" if this_plan else str(vehicles),
+                 duration_text(deadhead),
+                 "\u2014" if this_plan else duration_text((least - _minutes(deadhead)) * 60)]
+        if show_exact:
+            cells.append("\u2014" if exact is None else duration_text(exact))
+        table_rows.append([Paragraph(cells[0], st["cell"]),
+                           *(Paragraph(c, st["cell_right"]) for c in cells[1:])])
+    widths = [95, 95, 110] + ([110] if show_exact else [])
+    table = Table(table_rows, colWidths=widths, hAlign="LEFT", repeatRows=1)
+    table.setStyle(TableStyle(grid_table_style()))
+
+    example = rows[1][0] if len(rows) > 1 else fewest
+    body: list[Flowable] = [
+        Paragraph(f"\u201cAt most {example}\u201d means the best plan with {example} "
+                  "vehicles or fewer, so the empty driving never goes up.", st["body"]),
+        table,
+    ]
+    notes = []
+    if show_exact:
+        why = (", because each vehicle that goes out also drives from the depot and back"
+               if plan.day.settings.depot is not None else "")
+        notes.append("\u201cExactly this many out\u201d is the least empty driving when "
+                     f"all of them are used; it can be more than with fewer vehicles{why}.")
+    last = rows[-1][0]
+    if last == plan.day.n and last < fewest + EXTRA_VEHICLES_SHOWN:
+        notes.append(f"More than {_vehicles_text(last)} would change nothing: with "
+                     f"{last}, each vehicle does a single job.")
+    if notes:
+        body += [Spacer(1, 3), Paragraph(" ".join(notes), st["small"])]
+    # The heading starts a new page unless the whole section fits below it.
+    room = sum(flowable.wrap(FRAME_WIDTH, 10_000)[1] for flowable in body) + 10
+    return [*heading("What more vehicles would save", room=room), *body]
