@@ -20,7 +20,7 @@ from .core.caution import CAUTION
 from .core.clock import format_duration, parse_clock, parse_minutes
 from .core.demo import DEMO_SETTINGS, demo_files
 from .core.export import plan_to_json
-from .core.files import write_bytes_atomic
+from .core.files import PLAN_SUFFIX, write_bytes_atomic
 from .core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, Plan
 from .core.tables import parse_delimiter
 
@@ -278,6 +278,10 @@ def cmd_gui(argv: list[str]) -> int:
               "summary instead of the window.")
         if args.demo or not args.files:
             return cmd_demo([])
+        if Path(args.files[0]).suffix.lower() == PLAN_SUFFIX:
+            raise UsageError(f"{args.files[0]} is a saved plan: open it in the desktop app, "
+                             "which needs a display. From the command line, solve its jobs "
+                             "file instead: shipgui solve JOBS.csv")
         return cmd_solve(args.files[:1])
     try:
         from .gui.app import run

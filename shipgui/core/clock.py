@@ -13,7 +13,7 @@ import re
 from datetime import date, datetime, time, timedelta
 from decimal import Decimal, InvalidOperation
 
-__all__ = ["ClockValue", "parse_clock", "parse_minutes", "format_clock",
+__all__ = ["ClockValue", "parse_clock", "parse_minutes", "format_clock", "format_clock_or_none",
            "format_minutes", "format_duration", "minutes_value", "resolve_clock"]
 
 _HHMM = re.compile(r"^(\d{1,2}):(\d{2})(?::(\d{2}))?$")
@@ -95,6 +95,11 @@ def format_clock(seconds: int | float) -> str:
     h, rest = divmod(seconds, 3600)
     m, s = divmod(rest, 60)
     return f"{sign}{h:02d}:{m:02d}" + (f":{s:02d}" if s else "")
+
+
+def format_clock_or_none(seconds: int | None) -> str | None:
+    """:func:`format_clock`, or None for an unset time."""
+    return None if seconds is None else format_clock(seconds)
 
 
 def format_duration(seconds: int | float) -> str:

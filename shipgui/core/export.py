@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from .clock import format_clock
+from .clock import format_clock, format_clock_or_none
 from .clock import minutes_value as _minutes
 from .model import Plan
 
@@ -54,10 +54,8 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         "settings": {
             "turnaround_minutes": _minutes(day.settings.turnaround),
             "depot": day.settings.depot,
-            "day_start": None if day.settings.day_start is None
-            else format_clock(day.settings.day_start),
-            "day_end": None if day.settings.day_end is None
-            else format_clock(day.settings.day_end),
+            "day_start": format_clock_or_none(day.settings.day_start),
+            "day_end": format_clock_or_none(day.settings.day_end),
             "speed_kmh": day.settings.speed_kmh,
             "circuity": day.settings.circuity,
         },

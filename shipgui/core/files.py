@@ -6,7 +6,9 @@ import os
 import tempfile
 from pathlib import Path
 
-__all__ = ["write_bytes_atomic", "write_text_atomic", "fsync_directory"]
+__all__ = ["write_bytes_atomic", "write_text_atomic", "fsync_directory", "PLAN_SUFFIX"]
+
+PLAN_SUFFIX = ".shipgui"  # the desktop app's saved plans (gui/plan_file.py)
 
 
 def write_bytes_atomic(path: str | Path, data: bytes) -> None:

@@ -34,8 +34,9 @@ from shipgui.core import (
     read_sites,
     read_travel,
 )
+from shipgui.core.clock import format_clock_or_none
 from shipgui.core.export import plan_to_json
-from shipgui.core.files import fsync_directory
+from shipgui.core.files import PLAN_SUFFIX, fsync_directory
 
 from .document import PlanDocument
 
@@ -46,7 +47,6 @@ __all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "document_to_json",
 
 FORMAT = "shipgui-plan"
 SCHEMA_VERSION = 1
-PLAN_SUFFIX = ".shipgui"
 MAX_PLAN_BYTES = 64 * 1024 * 1024  # a 200 000-job day is about 40 MB of JSON
 
 
@@ -69,10 +69,6 @@ def write_file_safely(path: str | Path, data: bytes) -> None:
     fsync_directory(Path(path).resolve().parent)
 
 
-def _clock_or_none(seconds: int | None) -> str | None:
-    return None if seconds is None else format_clock(seconds)
-
-
 def document_to_json(document: PlanDocument) -> dict:
     s = document.settings
     return {
@@ -90,8 +86,8 @@ def document_to_json(document: PlanDocument) -> dict:
                        for (a, b), (sec, _row) in document.travel.items()],
         },
         "settings": {"turnaround_seconds": s.turnaround, "depot": s.depot,
-                     "day_start": _clock_or_none(s.day_start),
-                     "day_end": _clock_or_none(s.day_end),
+                     "day_start": format_clock_or_none(s.day_start),
+                     "day_end": format_clock_or_none(s.day_end),
                      "speed_kmh": s.speed_kmh, "circuity": s.circuity},
         "driver_names": {str(k): v for k, v in sorted(document.driver_names.items())},
         "sources": dict(document.sources),
