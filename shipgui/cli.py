@@ -131,7 +131,8 @@ def _cost_model(plan: Plan, args: argparse.Namespace) -> dict | None:
     if args.vehicle_cost is None and args.empty_hour_cost is None:
         return None
     vehicle, hour = args.vehicle_cost or 0.0, args.empty_hour_cost or 0.0
-    points = plan.tradeoff or ((plan.vehicles, plan.deadhead_seconds),)
+    # Exactly k vehicles out: each one counts at the vehicle cost.
+    points = plan.tradeoff_exact or ((plan.vehicles, plan.deadhead_seconds),)
     costs = [{"vehicles": k, "cost": round(k * vehicle + d / 3600 * hour, 2)}
              for k, d in points]
     cheapest = min(costs, key=lambda c: (c["cost"], c["vehicles"]))

@@ -205,8 +205,9 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0) ->
     Link arcs are priced in (column generation; e.g. Desrosiers & Lübbecke, "A
     primer in column generation", in Column Generation, Springer 2005): the
     flow is solved on each successor's cheapest groups, exact duals are
-    computed, and every left-out arc with a negative reduced cost is added
-    before solving again, warm-started from the previous flow and prices.  It
+    computed, and every left-out arc with a negative reduced cost (and those
+    within ``_MARGIN`` of the worst violation) is added before solving again,
+    warm-started from the previous flow and prices.  It
     stops when no arc of the full network has a negative reduced cost, which
     proves the flow optimal on the full network.  The same check follows every
     step of the trade-off.
@@ -293,8 +294,9 @@ class _PricedFlow:
                 raise RuntimeError("least-deadhead flow: could not rebalance after pricing")
 
     def _priced_out(self) -> tuple[int, int] | None:
-        """Add the left-out arcs with a negative reduced cost and carry the flow
-        over to the larger network: (largest violation, arcs added), or None."""
+        """Add the left-out arcs with a negative reduced cost (and near misses)
+        and carry the flow over to the larger network: (largest violation,
+        number of violated arcs), or None when no arc is violated."""
         js, gs, m = self.js, self.gs, self.costs.index.m
         reduced = self.costs.cost[js, gs] * self.net.scale + self.price[self.q] \
             - self.price[m + js]
