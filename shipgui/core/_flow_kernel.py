@@ -279,20 +279,13 @@ def tighten_prices(first, head, cap, cost, price):
     return True
 
 
-def cancel_one_unit(first, head, rev, cap, cost, price, source, sink):
-    """Send one unit from ``sink`` back to ``source`` along a cheapest residual path.
-
-    Needs reduced costs >= 0 on residual arcs (see :func:`tighten_prices`) and
-    keeps them so.  Returns the path's cost, or INF when there is no path.
-    """
+def _dijkstra(first, head, cap, cost, price, dist, via, keys, nodes, size, target, excess):
+    """Dijkstra on reduced costs from the nodes already in the heap (``size``
+    of them, their ``dist`` set), until it settles ``target`` or, when target
+    is -1, the first node with a negative ``excess``.  Fills dist and via (the
+    arc into each node); returns the node reached, or -1."""
     n = first.shape[0] - 1
-    dist = np.full(n, INF, dtype=np.int64)
-    via = np.full(n, -1, dtype=np.int64)
     done = np.zeros(n, dtype=np.bool_)
-    keys = np.empty(cap.shape[0] + 1, dtype=np.int64)
-    nodes = np.empty(cap.shape[0] + 1, dtype=np.int64)
-    size = _heap_push(keys, nodes, 0, np.int64(0), sink)
-    dist[sink] = 0
     while size > 0:
         d = keys[0]
         u = nodes[0]
@@ -300,8 +293,8 @@ def cancel_one_unit(first, head, rev, cap, cost, price, source, sink):
         if done[u]:
             continue
         done[u] = True
-        if u == source:
-            break
+        if u == target or (target < 0 and excess[u] < 0):
+            return u
         pu = price[u]
         for a in range(first[u], first[u + 1]):
             if cap[a] > 0:
@@ -311,9 +304,33 @@ def cancel_one_unit(first, head, rev, cap, cost, price, source, sink):
                     dist[v] = nd
                     via[v] = a
                     size = _heap_push(keys, nodes, size, nd, v)
-    if not done[source]:
+    return -1
+
+
+def _raise_prices(price, dist, reach):
+    """Add each node's distance, capped at ``reach``, to its price: reduced
+    costs stay >= 0 and those on shortest paths become 0."""
+    for v in range(price.shape[0]):
+        price[v] += dist[v] if dist[v] < reach else reach
+
+
+def cancel_one_unit(first, head, rev, cap, cost, price, source, sink):
+    """Send one unit from ``sink`` back to ``source`` along a cheapest residual path.
+
+    Needs reduced costs >= 0 on residual arcs (see :func:`tighten_prices`) and
+    keeps them so.  Returns the path's cost, or INF when there is no path.
+    """
+    n = first.shape[0] - 1
+    dist = np.full(n, INF, dtype=np.int64)
+    via = np.full(n, -1, dtype=np.int64)
+    keys = np.empty(cap.shape[0] + 1, dtype=np.int64)
+    nodes = np.empty(cap.shape[0] + 1, dtype=np.int64)
+    size = _heap_push(keys, nodes, 0, np.int64(0), sink)
+    dist[sink] = 0
+    no_excess = np.zeros(0, dtype=np.int64)  # not read: the search stops at source
+    if _dijkstra(first, head, cap, cost, price, dist, via, keys, nodes, size, source,
+                 no_excess) < 0:
         return INF
-    target = dist[source]
     path_cost = np.int64(0)
     v = source
     while v != sink:
@@ -322,8 +339,7 @@ def cancel_one_unit(first, head, rev, cap, cost, price, source, sink):
         cap[rev[a]] += 1
         path_cost += cost[a]
         v = head[rev[a]]
-    for v in range(n):
-        price[v] += dist[v] if dist[v] < target else target
+    _raise_prices(price, dist, dist[source])
     return path_cost
 
 
@@ -339,7 +355,7 @@ def repair(first, head, rev, cap, cost, price, excess):
     """
     n = first.shape[0] - 1
     dist = np.empty(n, dtype=np.int64)
-    done = np.empty(n, dtype=np.bool_)
+    via = np.empty(n, dtype=np.int64)
     dead = np.empty(n, dtype=np.bool_)
     on_path = np.zeros(n, dtype=np.bool_)
     current = np.empty(n, dtype=np.int64)
@@ -351,35 +367,17 @@ def repair(first, head, rev, cap, cost, price, excess):
         size = 0
         for v in range(n):
             dist[v] = INF
-            done[v] = False
             if excess[v] > 0:
                 dist[v] = 0
                 size = _heap_push(keys, nodes, size, np.int64(0), v)
         if size == 0:
             return True
-        reach = np.int64(-1)
-        while size > 0:
-            d = keys[0]
-            u = nodes[0]
-            size = _heap_pop(keys, nodes, size)
-            if done[u]:
-                continue
-            done[u] = True
-            if excess[u] < 0:
-                reach = d
-                break
-            pu = price[u]
-            for a in range(first[u], first[u + 1]):
-                if cap[a] > 0:
-                    v = head[a]
-                    nd = d + cost[a] + pu - price[v]
-                    if nd < dist[v]:
-                        dist[v] = nd
-                        size = _heap_push(keys, nodes, size, nd, v)
-        if reach < 0:
+        target = _dijkstra(first, head, cap, cost, price, dist, via, keys, nodes, size, -1,
+                           excess)
+        if target < 0:
             return False
+        _raise_prices(price, dist, dist[target])
         for v in range(n):
-            price[v] += dist[v] if dist[v] < reach else reach
             current[v] = first[v]
             dead[v] = False
         # Push along zero-reduced-cost arcs from every excess while paths remain.

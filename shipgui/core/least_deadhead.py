@@ -104,7 +104,8 @@ def _kernels():
         jit = numba_jit()
         wrap = (lambda f: f) if jit is None else jit
         # Helpers first: the compiled kernels call them through module globals.
-        for name in ("_heap_push", "_heap_pop", "_relabel", "_has_admissible", "update_prices"):
+        for name in ("_heap_push", "_heap_pop", "_relabel", "_has_admissible", "update_prices",
+                     "_dijkstra", "_raise_prices"):
             setattr(_flow_kernel, name, wrap(getattr(_flow_kernel, name)))
         _KERNELS = (wrap(_flow_kernel.cost_scaling), wrap(_flow_kernel.tighten_prices),
                     wrap(_flow_kernel.cancel_one_unit), wrap(_flow_kernel.repair))

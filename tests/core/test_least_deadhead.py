@@ -219,3 +219,29 @@ def _routes_of(succ):
             route.append(succ[route[-1]])
         routes.append(tuple(route))
     return routes
+
+
+def test_same_plan_without_numba():
+    # The kernels also run as plain Python (numba missing or SHIPGUI_NO_NUMBA=1):
+    # same routes and trade-off as the compiled ones.
+    import json
+    import os
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    from shipgui.core.export import plan_to_dict
+    root = Path(__file__).resolve().parents[2]
+    code = ("import json; from shipgui.core import solve_day; "
+            "from shipgui.core.export import plan_to_dict; "
+            "from tests.support.days import random_day; from shipgui.core import Settings; "
+            "print(json.dumps([plan_to_dict(solve_day(random_day(40, 5, seed=s, settings="
+            "Settings(depot='S0') if s % 2 else Settings()))) for s in range(4)]))")
+    env = dict(os.environ, SHIPGUI_NO_NUMBA="1", PYTHONPATH=str(root))
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         env=env, cwd=root, timeout=600, check=True).stdout
+    plain = json.loads(out)
+    compiled = [plan_to_dict(solve_day(random_day(40, 5, seed=s, settings=Settings(
+        depot="S0") if s % 2 else Settings()))) for s in range(4)]
+    assert [p["routes"] for p in plain] == [p["routes"] for p in compiled]
+    assert [p["tradeoff"] for p in plain] == [p["tradeoff"] for p in compiled]
