@@ -34,6 +34,7 @@ with exactly F - 1, F - 2, ... links (Ahuja, Magnanti & Orlin 1993, section 9.7)
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -196,12 +197,14 @@ def _initial_allowed(costs: ClassCosts) -> np.ndarray:
     return allowed & valid
 
 
-def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0) -> LinkSolution:
+def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
+                     check: Callable[[], None] | None = None) -> LinkSolution:
     """The least-cost set of as many links as ``matching`` has, for one class.
 
     ``matching``: a succ array (-1: no successor), normally a maximum matching,
     so the fleet stays minimal; its links also make the first round feasible.
     ``extra``: also the least cost with links - 1, ..., links - extra.
+    ``check`` is called between rounds (it may raise to stop the solve).
 
     Link arcs are priced in (column generation; e.g. Desrosiers & Lübbecke, "A
     primer in column generation", in Column Generation, Springer 2005): the
@@ -220,7 +223,7 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0) ->
         return LinkSolution(np.full(m, -1, dtype=np.int64), 0, 0, (0,), 0)
     allowed = _initial_allowed(costs)
     allowed[matching[linked], costs.group_of[linked]] = True
-    flow = _PricedFlow(costs, allowed, links)
+    flow = _PricedFlow(costs, allowed, links, check or (lambda: None))
     succ = flow.links()
     linked = np.flatnonzero(succ >= 0)
     link_cost = int(costs.cost[succ[linked], costs.group_of[linked]].sum())
@@ -230,6 +233,7 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0) ->
         raise RuntimeError("least-deadhead links do not match their flow")
     curve = [link_cost]
     for _ in range(min(extra, links)):
+        flow.check()
         flow.take_one_unit()
         curve.append(flow.link_cost())
     return LinkSolution(succ, links, link_cost, tuple(curve), flow.rounds)
@@ -239,8 +243,10 @@ class _PricedFlow:
     """A least-cost flow on the network of the allowed link arcs, kept optimal on
     the full network by adding every priced-out arc and solving again."""
 
-    def __init__(self, costs: ClassCosts, allowed: np.ndarray, links: int):
+    def __init__(self, costs: ClassCosts, allowed: np.ndarray, links: int,
+                 check: Callable[[], None]):
         self.costs = costs
+        self.check = check
         self.allowed = allowed
         index = costs.index
         self.js, self.gs = np.nonzero(index.latest >= 0)
@@ -274,6 +280,7 @@ class _PricedFlow:
         there are none: many at once by a warm-started cost scaling, a few by
         primal-dual shortest paths from the exact prices."""
         while True:
+            self.check()
             priced = self._priced_out()
             if priced is None:
                 return

@@ -41,19 +41,23 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
     Without it the routes are those of the maximum matching (any minimum-fleet
     plan) and there is no trade-off.
     ``progress`` is called with a stage name between steps; when
-    ``cancelled()`` turns true the solve stops with :class:`Cancelled`.
-    Running time O(phases * n * sites); memory O(n * sites).
+    ``cancelled()`` turns true the solve stops with :class:`Cancelled` (also
+    between the rounds of the least-deadhead stage).  The fleet takes
+    O(phases * n * sites) time; memory is O(n * sites) throughout.
     """
     kernel = kernel or default_kernel()
     timings: dict[str, float] = {}
 
     def stage(name: str, t0: float) -> float:
         timings[name] = timings.get(name, 0.0) + time.perf_counter() - t0
-        if cancelled is not None and cancelled():
-            raise Cancelled()
+        stop_if_cancelled()
         if progress is not None:
             progress(name)
         return time.perf_counter()
+
+    def stop_if_cancelled() -> None:
+        if cancelled is not None and cancelled():
+            raise Cancelled()
 
     t = time.perf_counter()
     indexes = class_indexes(day)
@@ -67,7 +71,7 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
         succ = matching.succ
         if least_deadhead and index.m:
             costs = class_costs(day, index)
-            best = least_cost_links(costs, succ, extra=tradeoff)
+            best = least_cost_links(costs, succ, extra=tradeoff, check=stop_if_cancelled)
             if best.links != matching.size:
                 raise RuntimeError("least-deadhead plan lost the minimum fleet")
             succ = best.succ

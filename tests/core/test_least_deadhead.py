@@ -245,3 +245,18 @@ def test_same_plan_without_numba():
         depot="S0") if s % 2 else Settings()))) for s in range(4)]
     assert [p["routes"] for p in plain] == [p["routes"] for p in compiled]
     assert [p["tradeoff"] for p in plain] == [p["tradeoff"] for p in compiled]
+
+
+def test_cancel_reaches_inside_the_least_deadhead_stage():
+    # A long least-deadhead solve stops between its rounds, not only after them.
+    from shipgui.core.solve import Cancelled
+    from tests.support.days import regional_day
+    calls = []
+
+    def cancelled():
+        calls.append(1)
+        return len(calls) >= 3  # after relation and matching: inside the flow rounds
+
+    with pytest.raises(Cancelled):
+        solve_day(regional_day(400, 30, seed=2), cancelled=cancelled)
+    assert len(calls) == 3
