@@ -16,10 +16,12 @@ is ``cost[a] + price[u] - price[v]``.
   in their numbering: epsilon < 1/n implies optimality for integer costs).
 * :func:`tighten_prices`: queue relaxation until every residual arc has a
   non-negative reduced cost (exact LP duals of an optimal flow).
+* :func:`repair`: re-balance a few units after arcs were added, by primal-dual
+  shortest paths from exact duals (Ahuja, Magnanti & Orlin, Network Flows,
+  1993, section 9.8).
 * :func:`cancel_one_unit`: one step of successive shortest paths in reverse:
   take one unit off the flow from ``source`` to ``sink`` at least extra cost
-  (Dijkstra on reduced costs; Ahuja, Magnanti & Orlin, Network Flows, 1993,
-  section 9.7).
+  (Dijkstra on reduced costs; Ahuja, Magnanti & Orlin 1993, section 9.7).
 """
 
 from __future__ import annotations

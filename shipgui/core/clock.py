@@ -14,7 +14,7 @@ from datetime import date, datetime, time, timedelta
 from decimal import Decimal, InvalidOperation
 
 __all__ = ["ClockValue", "parse_clock", "parse_minutes", "format_clock", "format_clock_or_none",
-           "format_minutes", "format_duration", "minutes_value", "resolve_clock"]
+           "format_minutes", "format_duration", "shown_minutes", "minutes_value", "resolve_clock"]
 
 _HHMM = re.compile(r"^(\d{1,2}):(\d{2})(?::(\d{2}))?$")
 MAX_HOURS = 48  # a plan day plus the following night; more is almost surely a typo
@@ -102,10 +102,15 @@ def format_clock_or_none(seconds: int | None) -> str | None:
     return None if seconds is None else format_clock(seconds)
 
 
+def shown_minutes(seconds: int | float) -> int:
+    """Whole minutes, rounded up, as :func:`format_duration` shows a duration."""
+    return math.ceil(seconds / 60)
+
+
 def format_duration(seconds: int | float) -> str:
     """A duration a person reads at a glance: '45 min', '3 h 05 min' (whole minutes,
     rounded up: estimates of driving and lateness should never look better than they are)."""
-    minutes = math.ceil(seconds / 60)
+    minutes = shown_minutes(seconds)
     if minutes < 60:
         return f"{minutes} min"
     return f"{minutes // 60} h {minutes % 60:02d} min"

@@ -259,11 +259,7 @@ class _PricedFlow:
         excess = np.zeros(len(self.price), dtype=np.int64)
         excess[self.net.source] = links
         excess[self.net.sink] = -links
-        self._solve(excess)
-
-    def _solve(self, excess: np.ndarray) -> None:
-        """Optimise from scratch, then price until nothing is missing."""
-        self._scale(excess, 0)
+        self._scale(excess, 0)  # from scratch on the first arcs
         self._price_in()
 
     def _scale(self, excess: np.ndarray, eps: int) -> None:

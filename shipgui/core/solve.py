@@ -48,16 +48,16 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
     kernel = kernel or default_kernel()
     timings: dict[str, float] = {}
 
+    def stop_if_cancelled() -> None:
+        if cancelled is not None and cancelled():
+            raise Cancelled()
+
     def stage(name: str, t0: float) -> float:
         timings[name] = timings.get(name, 0.0) + time.perf_counter() - t0
         stop_if_cancelled()
         if progress is not None:
             progress(name)
         return time.perf_counter()
-
-    def stop_if_cancelled() -> None:
-        if cancelled is not None and cancelled():
-            raise Cancelled()
 
     t = time.perf_counter()
     indexes = class_indexes(day)

@@ -9,7 +9,6 @@ whole trade-off.
 from __future__ import annotations
 
 import html
-import math
 
 from PySide6.QtCore import QPoint, Qt
 from PySide6.QtGui import QAction
@@ -27,7 +26,8 @@ from PySide6.QtWidgets import (
 )
 
 from shipgui.core import Plan
-from shipgui.core.clock import format_duration
+from shipgui.core.clock import format_duration, shown_minutes
+from shipgui.core.deadhead import tradeoff_rows as core_tradeoff_rows
 
 __all__ = ["AnswerBar", "hours_minutes", "saving_text", "tradeoff_rows", "tradeoff_html"]
 
@@ -35,11 +35,6 @@ __all__ = ["AnswerBar", "hours_minutes", "saving_text", "tradeoff_rows", "tradeo
 hours_minutes = format_duration  # "3 h 05 min" style, rounded up to the minute
 
 LINK_COLOUR = "#2f5f8f"
-TRADEOFF_EXTRA = 5  # the list goes from the minimum fleet to this many more vehicles
-
-
-def _shown_minutes(seconds: int) -> int:
-    return math.ceil(seconds / 60)  # as format_duration shows it
 
 
 def saving_text(before: int, after: int) -> str:
@@ -48,26 +43,20 @@ def saving_text(before: int, after: int) -> str:
     '−39 min', '−1 h 05 min'; '−<1 min' for a saving the rounding hides; '' for none."""
     if after >= before:
         return ""
-    minutes = _shown_minutes(before) - _shown_minutes(after)
+    minutes = shown_minutes(before) - shown_minutes(after)
     return f"−{format_duration(minutes * 60)}" if minutes > 0 else "−<1 min"
 
 
 def tradeoff_rows(plan: Plan) -> list[tuple[int, str, str, str]]:
     """(vehicles, least empty driving with at most that many, saving against the
-    plan, with exactly that many where that is more, else ''), minimum fleet first;
-    none unless the plan's routes are the least empty driving for its fleet."""
-    points = plan.tradeoff[:TRADEOFF_EXTRA + 1] if plan.least_deadhead else ()
-    if not points:
-        return []
-    exact = dict(plan.tradeoff_exact)
-    base = points[0][1]
-    rows = []
-    for vehicles, deadhead in points:
-        exactly = exact.get(vehicles)
-        rows.append((vehicles, format_duration(deadhead), saving_text(base, deadhead),
-                     format_duration(exactly) if exactly is not None and exactly != deadhead
-                     else ""))
-    return rows
+    plan, with exactly that many where that shows differently, else ''), minimum
+    fleet first; none unless the plan's routes are the least empty driving for its
+    fleet (:func:`shipgui.core.deadhead.tradeoff_rows`)."""
+    rows = core_tradeoff_rows(plan)
+    base = rows[0].at_most if rows else 0
+    return [(row.vehicles, format_duration(row.at_most), saving_text(base, row.at_most),
+             format_duration(row.exactly) if row.exactly_differs else "")
+            for row in rows]
 
 
 def tradeoff_html(plan: Plan) -> str:

@@ -3,11 +3,10 @@ and the timeline of all vehicles."""
 
 from __future__ import annotations
 
-import math
-
 from reportlab.platypus import Flowable, Paragraph, Spacer, Table, TableStyle
 
 from shipgui.core import format_clock
+from shipgui.core.deadhead import TRADEOFF_SHOWN, tradeoff_rows
 from shipgui.core.model import Plan
 
 from .pages import SectionStart
@@ -20,7 +19,7 @@ __all__ = ["build_summary", "MAX_WARNINGS_SHOWN", "EXTRA_VEHICLES_SHOWN"]
 # Warnings beyond this many are counted, not printed: the summary is one page of facts.
 MAX_WARNINGS_SHOWN = 8
 # The trade-off table shows the minimum fleet and up to this many vehicles more.
-EXTRA_VEHICLES_SHOWN = 5
+EXTRA_VEHICLES_SHOWN = TRADEOFF_SHOWN
 
 
 def build_summary(plan: Plan) -> list[Flowable]:
@@ -126,20 +125,6 @@ def _warnings(warnings: tuple[str, ...]) -> list[Flowable]:
     return [*heading("Warnings", room=30), *items]
 
 
-def _minutes(seconds: int) -> int:
-    """Whole minutes, rounded up as :func:`duration_text` prints them."""
-    return math.ceil(seconds / 60)
-
-
-def _tradeoff_rows(plan: Plan) -> list[tuple[int, int, int | None]]:
-    """(vehicles, least empty driving with at most that many, with exactly that many)
-    for the minimum fleet and up to :data:`EXTRA_VEHICLES_SHOWN` vehicles more."""
-    exact = dict(plan.tradeoff_exact)
-    last = plan.vehicles + EXTRA_VEHICLES_SHOWN
-    return [(vehicles, deadhead, exact.get(vehicles))
-            for vehicles, deadhead in plan.tradeoff if vehicles <= last]
-
-
 def _tradeoff(plan: Plan) -> list[Flowable]:
     """How much empty driving each extra vehicle would save; nothing without a trade-off.
 
@@ -147,33 +132,32 @@ def _tradeoff(plan: Plan) -> list[Flowable]:
     as printed.  The "exactly this many" column is shown only when it prints
     differently from the "at most" column in some row.
     """
-    rows = _tradeoff_rows(plan)
+    rows = tradeoff_rows(plan, EXTRA_VEHICLES_SHOWN)
     if not rows or plan.vehicles == 0:
         return []
     st = styles()
-    fewest, least = rows[0][0], _minutes(rows[0][1])
-    show_exact = any(exact is not None and _minutes(exact) != _minutes(deadhead)
-                     for _, deadhead, exact in rows)
+    fewest = rows[0].vehicles
+    show_exact = any(row.exactly_differs for row in rows)
     head = ["Vehicles (at most)", "Least empty driving",
             f"Saving vs {_vehicles_text(fewest)}"]
     if show_exact:
         head.append("Exactly this many out")
     table_rows = [[Paragraph(head[0], st["cell_head"]),
                    *(Paragraph(h, st["cell_head_right"]) for h in head[1:])]]
-    for vehicles, deadhead, exact in rows:
-        this_plan = vehicles == fewest
-        cells = [f"{vehicles} (this plan)" if this_plan else str(vehicles),
-                 duration_text(deadhead),
-                 "\u2014" if this_plan else duration_text((least - _minutes(deadhead)) * 60)]
+    for row in rows:
+        this_plan = row.vehicles == fewest
+        cells = [f"{row.vehicles} (this plan)" if this_plan else str(row.vehicles),
+                 duration_text(row.at_most),
+                 "\u2014" if this_plan else duration_text(row.saving_minutes * 60)]
         if show_exact:
-            cells.append("\u2014" if exact is None else duration_text(exact))
+            cells.append(duration_text(row.exactly))
         table_rows.append([Paragraph(cells[0], st["cell"]),
                            *(Paragraph(c, st["cell_right"]) for c in cells[1:])])
     widths = [95, 95, 110] + ([110] if show_exact else [])
     table = Table(table_rows, colWidths=widths, hAlign="LEFT", repeatRows=1)
     table.setStyle(TableStyle(grid_table_style()))
 
-    example = rows[1][0] if len(rows) > 1 else fewest
+    example = rows[1].vehicles if len(rows) > 1 else fewest
     body: list[Flowable] = [
         Paragraph(f"\u201cAt most {example}\u201d means the best plan with {example} "
                   "vehicles or fewer, so the empty driving never goes up.", st["body"]),
@@ -185,7 +169,7 @@ def _tradeoff(plan: Plan) -> list[Flowable]:
                if plan.day.settings.depot is not None else "")
         notes.append("\u201cExactly this many out\u201d is the least empty driving when "
                      f"all of them are used; it can be more than with fewer vehicles{why}.")
-    last = rows[-1][0]
+    last = rows[-1].vehicles
     if last == plan.day.n and last < fewest + EXTRA_VEHICLES_SHOWN:
         notes.append(f"More than {_vehicles_text(last)} would change nothing: with "
                      f"{last}, each vehicle does a single job.")

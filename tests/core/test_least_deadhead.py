@@ -260,3 +260,26 @@ def test_cancel_reaches_inside_the_least_deadhead_stage():
     with pytest.raises(Cancelled):
         solve_day(regional_day(400, 30, seed=2), cancelled=cancelled)
     assert len(calls) == 3
+
+
+def test_tradeoff_rows_for_screens_and_sheets():
+    # One list for the app and the PDF: the minimum fleet and five more, savings in
+    # the whole minutes the figures show, "exactly" flagged only when it shows
+    # differently.
+    import dataclasses
+
+    from shipgui.core.deadhead import tradeoff_rows
+    from tests.support.days import regional_day
+    plan = solve_day(regional_day(200, 20, seed=4), tradeoff=8)
+    rows = tradeoff_rows(plan)
+    assert [r.vehicles for r in rows] == [plan.vehicles + t for t in range(6)]
+    assert rows[0].saving_minutes == 0 and rows[0].at_most == plan.deadhead_seconds
+    base = -(-plan.deadhead_seconds // 60)
+    assert all(r.saving_minutes == base - -(-r.at_most // 60) for r in rows)
+    assert not any(r.exactly_differs for r in rows)  # no depot
+    v, d = plan.vehicles, plan.deadhead_seconds
+    a = (d // 60 - 3) * 60  # a whole minute: a - 30 s shows as the same minute
+    odd = dataclasses.replace(plan, tradeoff=((v, d), (v + 1, a), (v + 2, a)),
+                              tradeoff_exact=((v, d), (v + 1, a - 30), (v + 2, a + 60)))
+    assert [r.exactly_differs for r in tradeoff_rows(odd)] == [False, False, True]
+    assert tradeoff_rows(solve_day(regional_day(200, 20, seed=4), least_deadhead=False)) == []
