@@ -12,17 +12,21 @@ import argparse
 import os
 import sys
 import time
+from dataclasses import replace
 from pathlib import Path
 
-from . import __version__
-from .core import InputError, Settings, format_clock, format_minutes, load_day, solve_day
-from .core.caution import CAUTION
-from .core.clock import format_duration, parse_clock, parse_minutes
-from .core.demo import DEMO_SETTINGS, demo_files
-from .core.export import plan_to_json
-from .core.files import PLAN_SUFFIX, write_bytes_atomic
-from .core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, Plan
-from .core.tables import parse_delimiter
+from shipgui import __version__
+from shipgui.core import InputError, Settings, format_clock, format_minutes, solve_day
+from shipgui.core.caution import CAUTION
+from shipgui.core.clock import format_duration, parse_clock, parse_minutes
+from shipgui.core.day import build_inputs
+from shipgui.core.demo import DEMO_SETTINGS, demo_files
+from shipgui.core.export.plan_json import plan_to_json
+from shipgui.core.io.files import write_bytes_atomic
+from shipgui.core.io.plan_file import PLAN_SUFFIX, read_plan_file
+from shipgui.core.io.readers import read_inputs
+from shipgui.core.io.tables import parse_delimiter
+from shipgui.core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, DayInputs, Plan
 
 
 class UsageError(Exception):
@@ -37,7 +41,8 @@ class _Parser(argparse.ArgumentParser):
 def _solve_parser() -> argparse.ArgumentParser:
     p = _Parser(prog="shipgui solve",
                 description="Minimum vehicles, routes and proof for a day of jobs.")
-    p.add_argument("jobs", help="jobs file (CSV or XLSX)")
+    p.add_argument("jobs", help="jobs file (CSV or XLSX), or a plan file saved by the app "
+                   "(.shipgui; it carries its sites, travel and settings)")
     p.add_argument("--sites", help="sites file (names, addresses, coordinates)")
     p.add_argument("--travel", help="travel file (from, to, minutes)")
     p.add_argument("--sheet", metavar="NAME", help="sheet of the jobs workbook (default: first)")
@@ -50,14 +55,14 @@ def _solve_parser() -> argparse.ArgumentParser:
 
 
 def _add_common(p: argparse.ArgumentParser) -> None:
-    p.add_argument("--turnaround", metavar="MIN", default="0",
+    p.add_argument("--turnaround", metavar="MIN",
                    help="minutes between one job's end and the next job's drive (default 0)")
     p.add_argument("--depot", metavar="SITE", help="site the vehicles start from and return to")
     p.add_argument("--day-start", metavar="HH:MM", help="earliest departure from the depot")
     p.add_argument("--day-end", metavar="HH:MM", help="latest return to the depot")
-    p.add_argument("--speed", metavar="KMH", type=float, default=DEFAULT_SPEED_KMH,
+    p.add_argument("--speed", metavar="KMH", type=float,
                    help=f"average speed for estimated travel (default {DEFAULT_SPEED_KMH:g})")
-    p.add_argument("--circuity", type=float, default=DEFAULT_CIRCUITY,
+    p.add_argument("--circuity", type=float,
                    help=f"road distance / straight distance (default {DEFAULT_CIRCUITY:g})")
     _add_deadhead(p)
     p.add_argument("--vehicle-cost", metavar="COST", type=float,
@@ -79,10 +84,11 @@ def _add_deadhead(p: argparse.ArgumentParser) -> None:
                    help="also price up to N extra vehicles (default 5; 0 for none)")
 
 
-def _settings(args: argparse.Namespace) -> Settings:
-    def clock(option: str, text: str | None) -> int | None:
+def _settings(args: argparse.Namespace, base: Settings) -> Settings:
+    """``base`` with the settings given on the command line."""
+    def clock(option: str, text: str | None, default: int | None) -> int | None:
         if text is None:
-            return None
+            return default
         try:
             value = parse_clock(text)
         except ValueError as exc:
@@ -90,21 +96,30 @@ def _settings(args: argparse.Namespace) -> Settings:
         if value.seconds is None:
             raise UsageError(f"{option}: give a clock time HH:MM")
         return value.seconds
-    try:
-        turnaround = parse_minutes(args.turnaround)
-    except ValueError as exc:
-        raise UsageError(f"--turnaround: {exc}") from None
-    day_start, day_end = clock("--day-start", args.day_start), clock("--day-end", args.day_end)
-    if (day_start is not None or day_end is not None) and not args.depot:
+    given = {name: getattr(args, name, None) for name in
+             ("turnaround", "depot", "day_start", "day_end", "speed", "circuity")}
+    args = argparse.Namespace(**given)
+    turnaround = base.turnaround
+    if args.turnaround is not None:
+        try:
+            turnaround = parse_minutes(args.turnaround)
+        except ValueError as exc:
+            raise UsageError(f"--turnaround: {exc}") from None
+    depot = args.depot if args.depot is not None else base.depot
+    day_start = clock("--day-start", args.day_start, base.day_start)
+    day_end = clock("--day-end", args.day_end, base.day_end)
+    if (day_start is not None or day_end is not None) and not depot:
         raise UsageError("--day-start and --day-end need --depot")
     if day_start is not None and day_end is not None and day_end <= day_start:
         raise UsageError("--day-end must be after --day-start (use 25:00 for 01:00 next day)")
-    if not args.speed > 0:
+    speed = base.speed_kmh if args.speed is None else args.speed
+    circuity = base.circuity if args.circuity is None else args.circuity
+    if not speed > 0:
         raise UsageError("--speed must be more than 0 km/h")
-    if not args.circuity >= 1:
+    if not circuity >= 1:
         raise UsageError("--circuity must be at least 1")
-    return Settings(turnaround=turnaround, depot=args.depot, day_start=day_start,
-                    day_end=day_end, speed_kmh=args.speed, circuity=args.circuity)
+    return Settings(turnaround=turnaround, depot=depot, day_start=day_start,
+                    day_end=day_end, speed_kmh=speed, circuity=circuity)
 
 
 def _check_outputs(args: argparse.Namespace, inputs: list[str | None]) -> None:
@@ -146,10 +161,14 @@ def _render_outputs(plan: Plan, args: argparse.Namespace) -> dict[str, bytes]:
         outputs[args.json] = plan_to_json(plan, cost_model=_cost_model(plan, args)
                                           ).encode("utf-8")
     if args.pdf:
-        from .report import build_pdf_bytes
+        from shipgui.report import build_pdf_bytes
         outputs[args.pdf] = build_pdf_bytes(plan)
     if getattr(args, "routes", None):
-        from .core.routes_export import route_rows, routes_csv_bytes, routes_xlsx_bytes
+        from shipgui.core.export.routes_table import (
+            route_rows,
+            routes_csv_bytes,
+            routes_xlsx_bytes,
+        )
         rows = route_rows(plan)
         xlsx = Path(args.routes).suffix.lower() == ".xlsx"
         outputs[args.routes] = routes_xlsx_bytes(rows) if xlsx else routes_csv_bytes(rows)
@@ -204,13 +223,27 @@ def _input_options(args: argparse.Namespace) -> dict:
     return options
 
 
-def _run_solve(args: argparse.Namespace, files: dict[str, str | None], settings: Settings,
+def _read(args: argparse.Namespace, files: dict[str, str | None],
+          base: Settings) -> DayInputs:
+    """The day's inputs: a plan file with its own settings, or the day files."""
+    if Path(files["jobs"] or "").suffix.lower() == PLAN_SUFFIX:
+        given = [f"--{name.replace('_', '-')}" for name in
+                 ("sites", "travel", "sheet", "sites_sheet", "travel_sheet", "delimiter")
+                 if getattr(args, name, None)]
+        if given:
+            raise UsageError(f"{files['jobs']} is a plan file: it carries its own sites and "
+                             f"travel times, so {given[0]} does not apply")
+        inputs = read_plan_file(files["jobs"])
+        return replace(inputs, settings=_settings(args, inputs.settings))
+    return read_inputs(files["jobs"], files.get("sites"), files.get("travel"),
+                       settings=_settings(args, base), **_input_options(args))
+
+
+def _run_solve(args: argparse.Namespace, files: dict[str, str | None], base: Settings,
                label: str) -> int:
     _check_outputs(args, list(files.values()))
-    options = _input_options(args)
     t0 = time.perf_counter()
-    day = load_day(files["jobs"], files.get("sites"), files.get("travel"), settings=settings,
-                   **options)
+    day = build_inputs(_read(args, files, base))
     t1 = time.perf_counter()
     plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=max(0, args.tradeoff))
     if not plan.verified:
@@ -239,7 +272,7 @@ def _run_solve(args: argparse.Namespace, files: dict[str, str | None], settings:
 def cmd_solve(argv: list[str]) -> int:
     args = _solve_parser().parse_args(argv)
     files = {"jobs": args.jobs, "sites": args.sites, "travel": args.travel}
-    return _run_solve(args, files, _settings(args), args.jobs)
+    return _run_solve(args, files, Settings(), args.jobs)
 
 
 def cmd_demo(argv: list[str]) -> int:
@@ -279,13 +312,9 @@ def cmd_gui(argv: list[str]) -> int:
               "summary instead of the window.")
         if args.demo or not args.files:
             return cmd_demo([])
-        if Path(args.files[0]).suffix.lower() == PLAN_SUFFIX:
-            raise UsageError(f"{args.files[0]} is a saved plan: open it in the desktop app, "
-                             "which needs a display. From the command line, solve its jobs "
-                             "file instead: shipgui solve JOBS.csv")
         return cmd_solve(args.files[:1])
     try:
-        from .gui.app import run
+        from shipgui.gui.app import run
     except ImportError as exc:
         raise UsageError(f"the desktop app cannot start: {exc}") from None
     return run(args.files, demo=args.demo, screenshot=args.screenshot)

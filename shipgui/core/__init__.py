@@ -1,14 +1,20 @@
-"""The planning model and algorithms.  Imports only the standard library, numpy,
-scipy and networkx (never Qt or reportlab), so it runs headless; openpyxl is
-imported only when a spreadsheet is read or written."""
+"""The planning model and algorithms, headless: the standard library, numpy,
+scipy and numba only (never Qt or reportlab); openpyxl is imported only when a
+spreadsheet is read or written.
+
+The folders follow the data: ``io`` reads files into checked records,
+:mod:`.day` builds the validated day, ``fleet`` computes the minimum fleet and
+its routes, ``export`` writes the results.
+"""
 
 from .clock import format_clock, format_minutes, parse_clock, parse_minutes
+from .day import build_day, load_day
 from .errors import InputError, InputErrors, PlanNotVerified, Problem
+from .fleet.precedence import can_follow_matrix, follow_slack, prefix_index
+from .fleet.solve import Cancelled, solve_day
+from .fleet.verify import check_plan
+from .io.readers import read_jobs, read_sites, read_travel
 from .model import Day, Job, Plan, Settings, Site
-from .precedence import can_follow_matrix, follow_slack, prefix_index
-from .readers import build_day, load_day, read_jobs, read_sites, read_travel
-from .solve import Cancelled, solve_day
-from .verify import check_plan
 
 __all__ = [
     "Cancelled", "Day", "InputError", "InputErrors", "Job", "Plan", "PlanNotVerified",

@@ -7,10 +7,15 @@ problems of one file and raises them together as :class:`InputErrors`.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 
-__all__ = ["InputError", "InputErrors", "Problem", "PlanNotVerified"]
+__all__ = ["InputError", "InputErrors", "Problem", "ProblemCollector", "PlanNotVerified",
+           "MAX_PROBLEMS"]
+
+# A file with more problems than this is most likely the wrong file; listing
+# them all would bury the first ones.
+MAX_PROBLEMS = 50
 
 
 @dataclass(frozen=True)
@@ -79,6 +84,25 @@ class InputErrors(InputError):
 
     def __str__(self) -> str:
         return self.args[0]
+
+
+@dataclass
+class ProblemCollector:
+    """Gathers problems so that a file's mistakes are all reported at once."""
+
+    problems: list[Problem] = field(default_factory=list)
+    more: int = 0
+
+    def add(self, message: str, file: str | None = None, row: int | None = None,
+            column: str | None = None) -> None:
+        if len(self.problems) < MAX_PROBLEMS:
+            self.problems.append(Problem(message, file, row, column))
+        else:
+            self.more += 1
+
+    def raise_if_any(self) -> None:
+        if self.problems:
+            raise InputErrors(self.problems, more=self.more)
 
 
 class PlanNotVerified(RuntimeError):

@@ -7,8 +7,8 @@ from datetime import date
 
 import numpy as np
 
-__all__ = ["Job", "Site", "Settings", "Day", "Plan", "DEFAULT_SPEED_KMH",
-           "DEFAULT_CIRCUITY"]
+__all__ = ["Job", "Site", "Settings", "DayInputs", "Day", "Plan", "DEFAULT_SPEED_KMH",
+           "DEFAULT_CIRCUITY", "TravelPairs"]
 
 # Straight-line distance times a circuity factor gives road distance.  1.20 is
 # the mean road circuity measured for the USA in Ballou, Rahardja & Sakai,
@@ -72,6 +72,26 @@ class Settings:
     day_end: int | None = None
     speed_kmh: float = DEFAULT_SPEED_KMH
     circuity: float = DEFAULT_CIRCUITY
+
+
+# (from site, to site) -> (seconds, row in the travel file)
+TravelPairs = dict[tuple[str, str], tuple[int, int]]
+
+
+@dataclass(frozen=True)
+class DayInputs:
+    """Everything a day is planned from, checked record by record but not yet as a
+    whole (:func:`shipgui.core.day.build_day` does that): what the files, a plan
+    file or the app's editor hold.  ``driver_names`` maps vehicle numbers to the
+    names a dispatcher typed (kept with a plan file)."""
+
+    jobs: tuple[Job, ...]
+    sites: tuple[Site, ...] = ()
+    travel: TravelPairs = field(default_factory=dict)
+    settings: Settings = field(default_factory=Settings)
+    plan_date: date | None = None
+    sources: dict[str, str] = field(default_factory=dict)
+    driver_names: dict[int, str] = field(default_factory=dict)
 
 
 def _frozen(a: np.ndarray) -> np.ndarray:

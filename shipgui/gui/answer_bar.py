@@ -27,7 +27,7 @@ from PySide6.QtWidgets import (
 
 from shipgui.core import Plan
 from shipgui.core.clock import format_duration, shown_minutes
-from shipgui.core.deadhead import tradeoff_rows as core_tradeoff_rows
+from shipgui.core.fleet.deadhead import tradeoff_rows as core_tradeoff_rows
 
 __all__ = ["AnswerBar", "hours_minutes", "saving_text", "tradeoff_rows", "tradeoff_html"]
 
@@ -51,7 +51,7 @@ def tradeoff_rows(plan: Plan) -> list[tuple[int, str, str, str]]:
     """(vehicles, least empty driving with at most that many, saving against the
     plan, with exactly that many where that shows differently, else ''), minimum
     fleet first; none unless the plan's routes are the least empty driving for its
-    fleet (:func:`shipgui.core.deadhead.tradeoff_rows`)."""
+    fleet (:func:`shipgui.core.fleet.deadhead.tradeoff_rows`)."""
     rows = core_tradeoff_rows(plan)
     base = rows[0].at_most if rows else 0
     return [(row.vehicles, format_duration(row.at_most), saving_text(base, row.at_most),

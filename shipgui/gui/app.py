@@ -10,7 +10,7 @@ from PySide6.QtCore import QEventLoop, QTimer
 from PySide6.QtGui import QIcon
 from PySide6.QtWidgets import QApplication
 
-from shipgui.core.demo import resource_path
+from shipgui.resources import resource_path
 
 from .main_window import MainWindow
 from .settings import APPLICATION, ORGANISATION, AppSettings

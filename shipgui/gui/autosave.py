@@ -18,9 +18,14 @@ from pathlib import Path
 from PySide6.QtCore import QLockFile, QObject, QStandardPaths, QTimer
 
 from shipgui.core import InputError
-
-from . import plan_file
-from .document import PlanDocument
+from shipgui.core.document import DayDocument
+from shipgui.core.io.files import write_bytes_atomic
+from shipgui.core.io.plan_file import (
+    PLAN_SUFFIX,
+    inputs_from_json,
+    inputs_to_json,
+    read_plan_json,
+)
 
 __all__ = ["Autosaver", "Recovery", "AUTOSAVE_MS", "default_data_directory",
            "find_recoveries"]
@@ -46,7 +51,7 @@ class Recovery:
     """A recovery file left by a window that did not close cleanly."""
 
     path: Path
-    document: PlanDocument
+    document: DayDocument
     saved_at: str
     original: str | None
     lock: QLockFile
@@ -63,13 +68,13 @@ def find_recoveries(directory: Path) -> list[Recovery]:
     """
     folder = directory / RECOVERY_FOLDER
     found = []
-    for path in sorted(folder.glob(f"*{plan_file.PLAN_SUFFIX}")):
+    for path in sorted(folder.glob(f"*{PLAN_SUFFIX}")):
         lock = _lock(path)
         if not lock.tryLock(0):
             continue  # another window is running and owns it
         try:
-            data = plan_file.read_document_json(path)
-            document = plan_file.document_from_json(data, str(path))
+            data = read_plan_json(path)
+            document = DayDocument.from_inputs(inputs_from_json(data, str(path)), path)
         except InputError:
             path.unlink(missing_ok=True)
             lock.unlock()
@@ -88,13 +93,13 @@ class Autosaver(QObject):
     ``is_dirty`` says whether there is unsaved work (the undo stack is not clean).
     """
 
-    def __init__(self, document: PlanDocument, is_dirty, directory: Path,
+    def __init__(self, document: DayDocument, is_dirty, directory: Path,
                  parent: QObject | None = None, *, interval_ms: int = AUTOSAVE_MS) -> None:
         super().__init__(parent)
         self.document = document
         self.is_dirty = is_dirty
         self.folder = directory / RECOVERY_FOLDER
-        self.path = self.folder / f"{uuid.uuid4().hex}{plan_file.PLAN_SUFFIX}"
+        self.path = self.folder / f"{uuid.uuid4().hex}{PLAN_SUFFIX}"
         self._lock: QLockFile | None = None
         self.last_error = ""
         self.timer = QTimer(self)
@@ -107,7 +112,7 @@ class Autosaver(QObject):
         if not self.is_dirty():
             self.discard()
             return False
-        data = plan_file.document_to_json(self.document)
+        data = inputs_to_json(self.document.inputs())
         data["recovery"] = {"saved_at": datetime.now().isoformat(timespec="seconds"),
                             "original": str(self.document.path) if self.document.path else ""}
         try:
@@ -118,7 +123,7 @@ class Autosaver(QObject):
                     raise OSError(f"cannot lock {lock.error()}")
                 self._lock = lock
             text = json.dumps(data, indent=1, ensure_ascii=False) + "\n"
-            plan_file.write_file_safely(self.path, text.encode("utf-8"))
+            write_bytes_atomic(self.path, text.encode("utf-8"))
         except OSError as exc:  # autosave must never disturb the user's work
             self.last_error = str(exc)
             return False

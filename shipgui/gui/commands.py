@@ -7,8 +7,7 @@ from pathlib import Path
 from PySide6.QtGui import QUndoCommand
 
 from shipgui.core import Job, Settings, Site, format_clock
-
-from .document import PlanDocument
+from shipgui.core.document import DayDocument
 
 __all__ = ["EditJobField", "AddJob", "DeleteJobs", "ChangeSettings", "AttachSites",
            "AttachTravel", "RenameDriver", "FIELD_LABELS"]
@@ -30,7 +29,7 @@ def _shown(name: str, value) -> str:
 class EditJobField(QUndoCommand):
     """Change one field of one job, e.g. "Set start of J050 to 06:30"."""
 
-    def __init__(self, document: PlanDocument, row: int, name: str, value) -> None:
+    def __init__(self, document: DayDocument, row: int, name: str, value) -> None:
         job = document.jobs[row]
         super().__init__(f"Set {FIELD_LABELS[name]} of {job.id} to {_shown(name, value)}")
         self._document = document
@@ -47,7 +46,7 @@ class EditJobField(QUndoCommand):
 
 
 class AddJob(QUndoCommand):
-    def __init__(self, document: PlanDocument, row: int, job: Job) -> None:
+    def __init__(self, document: DayDocument, row: int, job: Job) -> None:
         super().__init__(f"Add job {job.id}")
         self._document = document
         self._row = row
@@ -63,7 +62,7 @@ class AddJob(QUndoCommand):
 class DeleteJobs(QUndoCommand):
     """Delete one or more jobs in one step."""
 
-    def __init__(self, document: PlanDocument, rows: list[int]) -> None:
+    def __init__(self, document: DayDocument, rows: list[int]) -> None:
         rows = sorted(set(rows))
         ids = [document.jobs[r].id for r in rows]
         text = f"Delete job {ids[0]}" if len(ids) == 1 else (
@@ -82,7 +81,7 @@ class DeleteJobs(QUndoCommand):
 
 
 class ChangeSettings(QUndoCommand):
-    def __init__(self, document: PlanDocument, settings: Settings, text: str) -> None:
+    def __init__(self, document: DayDocument, settings: Settings, text: str) -> None:
         super().__init__(text)
         self._document = document
         self._old = document.settings
@@ -98,7 +97,7 @@ class ChangeSettings(QUndoCommand):
 class _AttachCompanion(QUndoCommand):
     kind = ""
 
-    def __init__(self, document: PlanDocument, value, source: str | None) -> None:
+    def __init__(self, document: DayDocument, value, source: str | None) -> None:
         name = Path(source).name if source else None
         super().__init__(f"Attach {self.kind} file {name}" if name
                          else f"Remove {self.kind} file")
@@ -119,7 +118,7 @@ class _AttachCompanion(QUndoCommand):
 class AttachSites(_AttachCompanion):
     kind = "sites"
 
-    def __init__(self, document: PlanDocument, sites: list[Site], source: str | None) -> None:
+    def __init__(self, document: DayDocument, sites: list[Site], source: str | None) -> None:
         super().__init__(document, sites, source)
 
     def _apply(self, value, source) -> None:
@@ -134,7 +133,7 @@ class AttachTravel(_AttachCompanion):
 
 
 class RenameDriver(QUndoCommand):
-    def __init__(self, document: PlanDocument, vehicle: int, name: str) -> None:
+    def __init__(self, document: DayDocument, vehicle: int, name: str) -> None:
         super().__init__(f"Name vehicle {vehicle} '{name}'" if name
                          else f"Clear name of vehicle {vehicle}")
         self._document = document

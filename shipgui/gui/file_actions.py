@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import csv
 import importlib.util
 from collections.abc import Callable
 from pathlib import Path
@@ -13,16 +14,20 @@ from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QStyle
 
 from shipgui.core import InputError, Plan, Problem, Settings, read_sites, read_travel
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
-from shipgui.core.routes_export import write_routes
+from shipgui.core.document import DayDocument
+from shipgui.core.export.plan_json import plan_to_json
+from shipgui.core.export.routes_table import write_routes
+from shipgui.core.io.files import write_bytes_atomic
+from shipgui.core.io.plan_file import PLAN_SUFFIX
+from shipgui.core.io.readers import read_inputs
 
-from . import plan_file
 from .commands import AttachSites, AttachTravel
 from .problems import ProblemsDialog
 
 if TYPE_CHECKING:
     from .main_window import MainWindow
 
-__all__ = ["FileActions", "find_pdf_writer", "OPEN_FILTER"]
+__all__ = ["FileActions", "find_pdf_writer", "OPEN_FILTER", "csv_kind", "companion_files"]
 
 OPEN_FILTER = ("Days (*.shipgui *.csv);;Plan documents (*.shipgui);;Jobs, sites or travel "
                "(*.csv);;All files (*)")
@@ -127,7 +132,7 @@ class FileActions(QObject):
         """Open a plan document or a jobs CSV; sites / travel CSVs alone are attached."""
         paths = [Path(p) for p in paths]
         plans = [p for p in paths if p.suffix.lower() in (".shipgui", ".json")]
-        kinds = {p: plan_file.csv_kind(p) for p in paths if p.suffix.lower() == ".csv"}
+        kinds = {p: csv_kind(p) for p in paths if p.suffix.lower() == ".csv"}
         unknown = [p for p, kind in kinds.items() if kind is None]
         if unknown:
             self.show_problems("This file could not be opened.", [Problem(
@@ -139,7 +144,7 @@ class FileActions(QObject):
             return self._open_plan(plans[0])
         by_kind = {kind: p for p, kind in kinds.items()}
         if "jobs" in by_kind:
-            found = plan_file.companion_files(by_kind["jobs"])
+            found = companion_files(by_kind["jobs"])
             return self._open_csv(by_kind["jobs"], by_kind.get("sites", found.get("sites")),
                                   by_kind.get("travel", found.get("travel")), None)
         ok = True
@@ -152,7 +157,7 @@ class FileActions(QObject):
         if not self.maybe_save():
             return False
         try:
-            document = plan_file.open_document(path)
+            document = DayDocument.open(path)
         except InputError as exc:
             self.show_problems(f"{path.name} could not be opened; nothing was changed.",
                                list(exc.problems))
@@ -166,7 +171,7 @@ class FileActions(QObject):
                 return False
             settings = Settings()
         try:
-            document = plan_file.open_inputs(jobs, sites, travel, settings=settings)
+            document = DayDocument.from_inputs(read_inputs(jobs, sites, travel, settings=settings))
         except InputError as exc:
             self.show_problems(f"{Path(jobs).name} could not be opened; nothing was changed.",
                                list(exc.problems))
@@ -225,20 +230,20 @@ class FileActions(QObject):
 
     def save_as(self) -> bool:
         doc = self.window.document
-        suggestion = Path(self._directory()) / (Path(doc.title).stem + plan_file.PLAN_SUFFIX)
+        suggestion = Path(self._directory()) / (Path(doc.title).stem + PLAN_SUFFIX)
         path, _ = QFileDialog.getSaveFileName(self.window, "Save the day", str(suggestion),
                                               PLAN_FILTER)
         if not path:
             return False
         path = Path(path)
-        if path.suffix.lower() != plan_file.PLAN_SUFFIX:
-            path = path.with_name(path.name + plan_file.PLAN_SUFFIX)
+        if path.suffix.lower() != PLAN_SUFFIX:
+            path = path.with_name(path.name + PLAN_SUFFIX)
         return self._save_to(path)
 
     def _save_to(self, path: Path) -> bool:
         doc = self.window.document
         try:
-            plan_file.save_document(doc, path)
+            doc.save(path)
         except OSError as exc:
             QMessageBox.warning(self.window, "Not saved", str(exc))
             return False
@@ -300,7 +305,8 @@ class FileActions(QObject):
         if path is None:
             return False
         names = self.window.document.driver_names
-        return self._write_export(path, lambda p: plan_file.write_plan_json(plan, p, names))
+        return self._write_export(path, lambda p: write_bytes_atomic(
+            p, plan_to_json(plan, driver_names=names).encode("utf-8")))
 
     def export_routes(self) -> bool:
         """One row per job with vehicle and sequence, for a spreadsheet."""
@@ -339,3 +345,31 @@ class FileActions(QObject):
             return []
         paths = [Path(u.toLocalFile()) for u in mime.urls() if u.isLocalFile()]
         return [p for p in paths if p.suffix.lower() in DROPPABLE]
+
+
+def csv_kind(path: str | Path) -> str | None:
+    """"jobs", "sites" or "travel" from the header of a CSV file, else None."""
+    try:
+        with open(path, encoding="utf-8-sig", newline="") as f:
+            header = next(csv.reader(f), [])
+    except (OSError, UnicodeDecodeError, csv.Error):
+        return None
+    names = {h.strip().casefold() for h in header}
+    if "job" in names:
+        return "jobs"
+    if {"from", "to", "minutes"} <= names:
+        return "travel"
+    if "site" in names:
+        return "sites"
+    return None
+
+
+def companion_files(jobs: str | Path) -> dict[str, Path]:
+    """Sites and travel files lying next to a jobs file as sites.csv / travel.csv."""
+    folder = Path(jobs).resolve().parent
+    found = {}
+    for kind in ("sites", "travel"):
+        candidate = folder / f"{kind}.csv"
+        if candidate.is_file() and csv_kind(candidate) == kind:
+            found[kind] = candidate
+    return found

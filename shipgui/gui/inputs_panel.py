@@ -20,8 +20,7 @@ from PySide6.QtWidgets import (
 )
 
 from shipgui.core import Settings, format_clock, parse_clock
-
-from .document import PlanDocument
+from shipgui.core.document import DayDocument
 
 __all__ = ["InputsPanel"]
 
@@ -125,7 +124,7 @@ class InputsPanel(QWidget):
         self.circuity.valueChanged.connect(self._circuity_changed)
 
     # ------------------------------------------------------------ showing
-    def show_document(self, document: PlanDocument) -> None:
+    def show_document(self, document: DayDocument) -> None:
         """Fill the fields from the document without emitting edits."""
         self._loading = True
         try:

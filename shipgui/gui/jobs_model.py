@@ -15,9 +15,9 @@ from PySide6.QtCore import (
 from PySide6.QtGui import QUndoStack
 
 from shipgui.core import Plan, format_clock, parse_clock
+from shipgui.core.document import Change, DayDocument
 
 from .commands import EditJobField
-from .document import Change, PlanDocument
 
 __all__ = ["Column", "JobRole", "JobsModel", "JobsFilterModel", "check_field"]
 
@@ -70,7 +70,7 @@ class JobRole(IntEnum):
     JOB_ID = Qt.ItemDataRole.UserRole + 3
 
 
-def check_field(document: PlanDocument, row: int, name: str, text: str):
+def check_field(document: DayDocument, row: int, name: str, text: str):
     """The value to store for ``text`` typed into field ``name`` of job ``row``.
 
     Raises ``ValueError`` with a sentence for the dispatcher when it is refused.
@@ -109,7 +109,7 @@ class JobsModel(QAbstractTableModel):
 
     edit_refused = Signal(str)
 
-    def __init__(self, document: PlanDocument, undo_stack: QUndoStack | None = None,
+    def __init__(self, document: DayDocument, undo_stack: QUndoStack | None = None,
                  parent=None) -> None:
         super().__init__(parent)
         self._document = document
@@ -118,7 +118,7 @@ class JobsModel(QAbstractTableModel):
         document.subscribe(self._on_change)
 
     @property
-    def document(self) -> PlanDocument:
+    def document(self) -> DayDocument:
         return self._document
 
     def detach(self) -> None:

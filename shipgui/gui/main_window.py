@@ -19,12 +19,12 @@ from PySide6.QtWidgets import (
 
 from shipgui.core import Job, Plan, Problem
 from shipgui.core.caution import CAUTION
+from shipgui.core.document import Change, DayDocument
 
 from .answer_bar import AnswerBar
 from .autosave import Autosaver, find_recoveries
 from .certificate_panel import CertificatePanel
 from .commands import AddJob, ChangeSettings, DeleteJobs, RenameDriver
-from .document import Change, PlanDocument
 from .file_actions import FileActions
 from .inputs_panel import InputsPanel
 from .jobs_model import Column, JobsModel
@@ -47,7 +47,7 @@ class MainWindow(QMainWindow):
     def __init__(self, settings: AppSettings | None = None, *, solve_delay_ms: int = 80) -> None:
         super().__init__()
         self.settings = settings or AppSettings()
-        self.document = PlanDocument()
+        self.document = DayDocument()
         self.undo_stack = QUndoStack(self)
         self.plan: Plan | None = None
         self.plan_is_current = False
@@ -223,7 +223,7 @@ class MainWindow(QMainWindow):
         self.setWindowTitle(f"{self.document.title}[*] — shipgui")
         self.setWindowModified(not self.undo_stack.isClean())
 
-    def load_document(self, document: PlanDocument) -> None:
+    def load_document(self, document: DayDocument) -> None:
         """Show a freshly opened day in this window (replaces the current one)."""
         self.document.replace_all(document)
         self.undo_stack.clear()

@@ -15,7 +15,7 @@ from PySide6.QtWidgets import (
 )
 
 from shipgui.core import Plan, format_clock, format_minutes
-from shipgui.core.deadhead import route_legs
+from shipgui.core.fleet.deadhead import route_legs
 
 __all__ = ["TimelineView", "JobBar", "COLOURS"]
 

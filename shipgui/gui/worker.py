@@ -18,9 +18,9 @@ from functools import partial
 
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, QTimer, Signal
 
-from shipgui.core import Cancelled, Day, InputError, Plan, build_day, solve_day
-
-from .document import PlanDocument
+from shipgui.core import Cancelled, Day, InputError, Plan, solve_day
+from shipgui.core.day import build_inputs
+from shipgui.core.document import DayDocument
 
 __all__ = ["WorkerSignals", "SolveWorker", "SolveController", "STAGE_NAMES"]
 
@@ -81,12 +81,10 @@ class SolveWorker(QRunnable):
             signals.finished.emit(g, plan, time.perf_counter() - t0)
 
 
-def snapshot(document: PlanDocument) -> Callable[[], Day]:
+def snapshot(document: DayDocument) -> Callable[[], Day]:
     """A call that builds the day from a copy of the current inputs, so the
     worker never reads the document while the user goes on editing."""
-    return partial(build_day, list(document.jobs), list(document.sites),
-                   dict(document.travel), settings=document.settings,
-                   plan_date=document.plan_date, sources=dict(document.sources))
+    return partial(build_inputs, document.inputs())
 
 
 class SolveController(QObject):

@@ -14,7 +14,7 @@ from shipgui.core import PlanNotVerified
 from shipgui.core.model import Plan
 
 from .certificate import build_certificate
-from .pages import PlanDocument
+from .pages import PlanDocTemplate
 from .route_sheet import build_route_sheet
 from .styles import register_fonts
 from .summary import build_summary
@@ -68,7 +68,7 @@ def build_pdf_bytes(plan: Plan, *, driver_names: Mapping[int, str] | None = None
     register_fonts()
     buffer = io.BytesIO()
     date = plan_date_text(plan.day)
-    document = PlanDocument(buffer, plan_date=date, fingerprint=plan.day.fingerprint,
+    document = PlanDocTemplate(buffer, plan_date=date, fingerprint=plan.day.fingerprint,
                             title=f"Vehicle plan {date}")
     document.build_story(_story(plan, names))
     return buffer.getvalue()

@@ -26,7 +26,7 @@ from .styles import (
 )
 from .text import fit_text
 
-__all__ = ["CAUTION", "SectionStart", "PlanDocument", "PAGE_TEMPLATES"]
+__all__ = ["CAUTION", "SectionStart", "PlanDocTemplate", "PAGE_TEMPLATES"]
 
 
 PAGE_TEMPLATES = ("summary", "route", "certificate")
@@ -71,7 +71,7 @@ class _PageCountCanvas(Canvas):
         super().save()
 
 
-class PlanDocument(BaseDocTemplate):
+class PlanDocTemplate(BaseDocTemplate):
     """A4 document with one named page template per section of the plan."""
 
     def __init__(self, target, *, plan_date: str, fingerprint: str, title: str):

@@ -17,7 +17,7 @@ from reportlab.platypus import (
 )
 
 from shipgui.core import format_clock
-from shipgui.core.deadhead import RouteLegs, route_legs
+from shipgui.core.fleet.deadhead import RouteLegs, route_legs
 from shipgui.core.model import Day, Job, Plan
 
 from .pages import SectionStart

@@ -6,7 +6,7 @@ from __future__ import annotations
 from reportlab.platypus import Flowable, Paragraph, Spacer, Table, TableStyle
 
 from shipgui.core import format_clock
-from shipgui.core.deadhead import TRADEOFF_SHOWN, tradeoff_rows
+from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN, tradeoff_rows
 from shipgui.core.model import Plan
 
 from .pages import SectionStart

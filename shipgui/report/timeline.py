@@ -17,7 +17,7 @@ from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.platypus import Flowable
 
-from shipgui.core.deadhead import route_legs
+from shipgui.core.fleet.deadhead import route_legs
 from shipgui.core.model import Plan
 
 from .styles import FAINT_GREY, FONT, FONT_BOLD, INK, LIGHT_GREY, MID_GREY

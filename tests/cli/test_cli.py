@@ -197,14 +197,17 @@ def test_delimiter_option(tmp_path, capsys):
     assert main(["solve", str(jobs), "--routes", str(tmp_path / "r.txt")]) == 2
 
 
-def test_saved_plan_without_display_says_to_use_the_app(tmp_path, monkeypatch, capsys):
-    # Without a display the launcher prints summaries; a saved plan is not a jobs
-    # file, so it must say what to do rather than complain about CSV headers.
+def test_saved_plan_without_display_prints_its_summary(tmp_path, monkeypatch, capsys):
+    # Without a display the launcher prints summaries; a saved plan file is solved
+    # like a jobs file (it carries its own sites, travel and settings).
+    from tests.support.documents import small_document
     for name in ("DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM"):
         monkeypatch.delenv(name, raising=False)
     monkeypatch.setattr(sys, "platform", "linux")
     plan = tmp_path / "tomorrow.shipgui"
+    small_document().save(plan)
+    assert main([str(plan)]) == 0
+    assert "Vehicles needed: 2" in capsys.readouterr().out
     plan.write_text("{}")
     assert main([str(plan)]) == 2
-    err = capsys.readouterr().err
-    assert "tomorrow.shipgui is a saved plan" in err and "shipgui solve" in err
+    assert "not a shipgui plan" in capsys.readouterr().err

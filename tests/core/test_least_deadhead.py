@@ -5,10 +5,10 @@ import numpy as np
 import pytest
 
 from shipgui.core import Job, Settings, build_day, can_follow_matrix, solve_day
-from shipgui.core.deadhead import plan_deadhead
-from shipgui.core.least_deadhead import class_costs, least_cost_links
-from shipgui.core.matching import maximum_matching
-from shipgui.core.precedence import class_indexes
+from shipgui.core.fleet.deadhead import plan_deadhead
+from shipgui.core.fleet.least_deadhead import class_costs, least_cost_links
+from shipgui.core.fleet.matching import maximum_matching
+from shipgui.core.fleet.precedence import class_indexes
 from tests.support.days import random_day
 
 
@@ -48,7 +48,7 @@ STRATEGIES = {"all-arcs": (10**6, 10**6), "priced-scaling": (1, 0), "priced-repa
 
 @pytest.fixture(params=list(STRATEGIES))
 def strategy(request, monkeypatch):
-    import shipgui.core.least_deadhead as least
+    import shipgui.core.fleet.least_deadhead as least
     groups, repair = STRATEGIES[request.param]
     monkeypatch.setattr(least, "_CANDIDATE_GROUPS", groups)
     monkeypatch.setattr(least, "_REPAIR_LIMIT", repair)
@@ -103,7 +103,7 @@ def test_least_cost_equals_scipy_assignment_on_all_pairs(seed):
 
 
 def test_least_deadhead_is_deterministic():
-    from shipgui.core.export import plan_to_json
+    from shipgui.core.export.plan_json import plan_to_json
     from tests.support.days import regional_day
     day = regional_day(400, 30, seed=11)
     first = plan_to_json(solve_day(day, least_deadhead=True, tradeoff=5))
@@ -222,7 +222,7 @@ def _routes_of(succ):
 
 
 def test_same_plan_without_numba():
-    # The kernels also run as plain Python (numba missing or SHIPGUI_NO_NUMBA=1):
+    # The kernels also run as plain Python (numba missing or NUMBA_DISABLE_JIT=1):
     # same routes and trade-off as the compiled ones.
     import json
     import os
@@ -230,14 +230,14 @@ def test_same_plan_without_numba():
     import sys
     from pathlib import Path
 
-    from shipgui.core.export import plan_to_dict
+    from shipgui.core.export.plan_json import plan_to_dict
     root = Path(__file__).resolve().parents[2]
     code = ("import json; from shipgui.core import solve_day; "
-            "from shipgui.core.export import plan_to_dict; "
+            "from shipgui.core.export.plan_json import plan_to_dict; "
             "from tests.support.days import random_day; from shipgui.core import Settings; "
             "print(json.dumps([plan_to_dict(solve_day(random_day(40, 5, seed=s, settings="
             "Settings(depot='S0') if s % 2 else Settings()))) for s in range(4)]))")
-    env = dict(os.environ, SHIPGUI_NO_NUMBA="1", PYTHONPATH=str(root))
+    env = dict(os.environ, NUMBA_DISABLE_JIT="1", PYTHONPATH=str(root))
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                          env=env, cwd=root, timeout=600, check=True).stdout
     plain = json.loads(out)
@@ -249,7 +249,7 @@ def test_same_plan_without_numba():
 
 def test_cancel_reaches_inside_the_least_deadhead_stage():
     # A long least-deadhead solve stops between its rounds, not only after them.
-    from shipgui.core.solve import Cancelled
+    from shipgui.core.fleet.solve import Cancelled
     from tests.support.days import regional_day
     calls = []
 
@@ -268,7 +268,7 @@ def test_tradeoff_rows_for_screens_and_sheets():
     # differently.
     import dataclasses
 
-    from shipgui.core.deadhead import tradeoff_rows
+    from shipgui.core.fleet.deadhead import tradeoff_rows
     from tests.support.days import regional_day
     plan = solve_day(regional_day(200, 20, seed=4), tradeoff=8)
     rows = tradeoff_rows(plan)

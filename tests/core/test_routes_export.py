@@ -9,7 +9,7 @@ import openpyxl
 import pytest
 
 from shipgui.core import Job, Settings, Site, build_day, solve_day
-from shipgui.core.routes_export import (
+from shipgui.core.export.routes_table import (
     COLUMNS,
     neutralise,
     route_rows,
@@ -87,7 +87,7 @@ def test_other_suffixes_are_refused(tmp_path):
 
 
 def test_control_characters_cannot_break_the_workbook():
-    from shipgui.core.routes_export import RouteRow, routes_xlsx_bytes
+    from shipgui.core.export.routes_table import RouteRow, routes_xlsx_bytes
     row = RouteRow(1, 1, "J\x01", "08:00", "09:00", "A", "B", "\x00x", "", "", 0)
     book = openpyxl.load_workbook(io.BytesIO(routes_xlsx_bytes([row])))
     assert book.active["A2"].value == 1 and "\ufffd" in book.active["C2"].value

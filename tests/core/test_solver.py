@@ -7,8 +7,8 @@ import numpy as np
 import pytest
 
 from shipgui.core import Job, Settings, build_day, can_follow_matrix, check_plan, solve_day
-from shipgui.core.matching import available_kernels, maximum_matching
-from shipgui.core.precedence import prefix_index_from_matrix
+from shipgui.core.fleet.matching import available_kernels, maximum_matching
+from shipgui.core.fleet.precedence import prefix_index_from_matrix
 from tests.support.days import random_day
 
 KERNELS = available_kernels()

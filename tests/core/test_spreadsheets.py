@@ -11,9 +11,9 @@ import openpyxl
 import pytest
 
 from shipgui.core import InputError, load_day, read_jobs, read_sites, read_travel
-from shipgui.core._xlsx import cell_text
-from shipgui.core.readers import MAX_SITES
-from shipgui.core.tables import MAX_ROWS, parse_delimiter, read_table
+from shipgui.core.day import MAX_SITES
+from shipgui.core.io._xlsx import cell_text
+from shipgui.core.io.tables import MAX_ROWS, parse_delimiter, read_table
 
 
 def workbook(path, sheets: dict[str, list[list]]):
@@ -154,7 +154,7 @@ def test_a_million_rows_are_refused_without_a_hang(tmp_path):
 def test_a_workbook_with_too_many_rows_is_refused(tmp_path, monkeypatch):
     path = workbook(tmp_path / "jobs.xlsx", {"Jobs": [["job", "origin", "start", "end"]] + [
         [f"J{k}", "A", time(7), time(8)] for k in range(30)]})
-    monkeypatch.setattr("shipgui.core.tables.MAX_ROWS", 20)
+    monkeypatch.setattr("shipgui.core.io.tables.MAX_ROWS", 20)
     with pytest.raises(InputError, match="more than 20 rows"):
         read_table(path)
 

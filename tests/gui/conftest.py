@@ -7,26 +7,12 @@ from __future__ import annotations
 import pytest
 from PySide6.QtCore import QThreadPool
 
-from shipgui.core import Job, Settings, Site
-from shipgui.gui.document import PlanDocument
+from shipgui.core.document import DayDocument
 from shipgui.gui.main_window import MainWindow
 from shipgui.gui.settings import AppSettings
+from tests.support.documents import small_document  # noqa: F401 - used by the tests here
 
 WAIT_MS = 20_000
-
-
-def small_document() -> PlanDocument:
-    """Four jobs on three invented sites, 6 km apart on a line (about 9 min by road)."""
-    sites = [Site("A", "North stop", x_km=0.0, y_km=0.0),
-             Site("B", "Middle stop", x_km=6.0, y_km=0.0),
-             Site("C", "South stop", x_km=12.0, y_km=0.0)]
-    hour = 3600
-    jobs = [Job("J1", "A", "B", 8 * hour, 9 * hour, row=2),
-            Job("J2", "B", "C", 9 * hour + 1800, 10 * hour, row=3),
-            Job("J3", "A", "A", 8 * hour + 1800, 11 * hour, row=4),
-            Job("J4", "C", "A", 10 * hour + 1800, 12 * hour, row=5)]
-    return PlanDocument(jobs, sites, {}, Settings(turnaround=600),
-                        sources={"jobs": "/invented/small-jobs.csv"})
 
 
 @pytest.fixture
@@ -47,7 +33,7 @@ def window(qtbot, app_settings):
     w.deleteLater()
 
 
-def load_and_wait(qtbot, window: MainWindow, document: PlanDocument):
+def load_and_wait(qtbot, window: MainWindow, document: DayDocument):
     with qtbot.waitSignal(window.plan_shown, timeout=WAIT_MS) as blocker:
         window.load_document(document)
     return blocker.args[0]

@@ -12,7 +12,8 @@ import pytest
 from PySide6.QtWidgets import QFileDialog, QMessageBox
 
 from shipgui.core import InputError
-from shipgui.gui import plan_file
+from shipgui.core.document import DayDocument
+from shipgui.core.io.plan_file import SCHEMA_VERSION
 from shipgui.gui.app import open_window
 from shipgui.gui.autosave import AUTOSAVE_MS, find_recoveries
 from shipgui.gui.commands import DeleteJobs
@@ -63,7 +64,7 @@ def test_autosave_runs_every_minute_only_with_unsaved_work(qtbot, small_window, 
     saver.timer.timeout.emit()
     [path] = recovery_files(tmp_path)
     data = json.loads(path.read_text(encoding="utf-8"))
-    assert data["schema_version"] == plan_file.SCHEMA_VERSION
+    assert data["schema_version"] == SCHEMA_VERSION
     assert [j["job"] for j in data["inputs"]["jobs"]] == ["J2", "J3", "J4"]
     small_window.undo_stack.undo()  # back to the saved state: nothing to recover
     assert recovery_files(tmp_path) == []
@@ -145,11 +146,11 @@ def test_a_plan_from_a_newer_version_gets_a_clear_error(tmp_path):
     path = tmp_path / "future.shipgui"
     path.write_text(json.dumps({"format": "shipgui-plan", "schema_version": 7}))
     with pytest.raises(InputError, match="newer version of shipgui") as info:
-        plan_file.open_document(path)
+        DayDocument.open(path)
     assert "version 7" in str(info.value) and "Update shipgui" in str(info.value)
     path.write_text(json.dumps({"format": "shipgui-plan", "schema_version": "1"}))
     with pytest.raises(InputError, match="damaged"):
-        plan_file.open_document(path)
+        DayDocument.open(path)
 
 
 @pytest.mark.parametrize("content", ["[" * 100_000, '{"a": ' + "9" * 5000 + "}",
@@ -162,7 +163,7 @@ def test_absurd_plan_documents_are_input_errors(tmp_path, content):
     path = tmp_path / "odd.shipgui"
     path.write_text(content)
     with pytest.raises(InputError):
-        plan_file.open_document(path)
+        DayDocument.open(path)
 
 
 def test_plan_files_are_never_pickled_or_evaluated():

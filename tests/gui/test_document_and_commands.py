@@ -8,6 +8,7 @@ import pytest
 from PySide6.QtGui import QUndoStack
 
 from shipgui.core import InputError, Job, Settings, Site
+from shipgui.core.document import Change, DayDocument
 from shipgui.gui.commands import (
     AddJob,
     AttachSites,
@@ -17,7 +18,6 @@ from shipgui.gui.commands import (
     EditJobField,
     RenameDriver,
 )
-from shipgui.gui.document import Change, PlanDocument
 
 from .conftest import small_document
 
@@ -110,6 +110,6 @@ def test_replace_all_keeps_listeners():
     doc = small_document()
     heard = []
     doc.subscribe(lambda change, done: heard.append(change.kind))
-    doc.replace_all(PlanDocument(jobs=[Job("X", "A", "A", 0, 60)]))
+    doc.replace_all(DayDocument(jobs=[Job("X", "A", "A", 0, 60)]))
     assert [j.id for j in doc.jobs] == ["X"]
     assert heard == ["reset", "reset"]

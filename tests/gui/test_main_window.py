@@ -326,3 +326,15 @@ def test_double_click_vehicle_names_its_driver(qtbot, small_window, monkeypatch)
     assert w.undo_stack.undoText() == "Name vehicle 2 'Ada Fenwick'"
     w.undo_stack.undo()
     assert w.document.driver_names == {}
+
+
+def test_csv_kind_and_companions(tmp_path):
+    from shipgui.gui.file_actions import companion_files, csv_kind
+    (tmp_path / "jobs.csv").write_text("Job,Origin,Start,Duration\n")
+    (tmp_path / "sites.csv").write_text("site,lat,lon\n")
+    (tmp_path / "travel.csv").write_text("from,to,minutes\n")
+    (tmp_path / "other.csv").write_text("a,b\n")
+    assert csv_kind(tmp_path / "jobs.csv") == "jobs"
+    assert csv_kind(tmp_path / "travel.csv") == "travel"
+    assert csv_kind(tmp_path / "other.csv") is None
+    assert set(companion_files(tmp_path / "jobs.csv")) == {"sites", "travel"}

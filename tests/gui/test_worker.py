@@ -107,8 +107,8 @@ def test_cancel_sets_the_flag_and_reports(qtbot):
 def test_resolve_of_a_1000_job_day(qtbot, capsys):
     """Measure what a dispatcher waits for after an edit of a 1 000-job day."""
     day = regional_day(1000, 100)
-    from shipgui.gui.document import PlanDocument
-    doc = PlanDocument(list(day.jobs), list(day.sites.values()), {}, day.settings)
+    from shipgui.core.document import DayDocument
+    doc = DayDocument(list(day.jobs), list(day.sites.values()), {}, day.settings)
     controller = SolveController(delay_ms=0)
     with qtbot.waitSignal(controller.plan_ready, timeout=60_000):  # first: compiles kernels
         controller.request(snapshot(doc))

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from shipgui.core.day import build_day
 from shipgui.core.model import Job, Settings, Site
-from shipgui.core.readers import build_day
 
 
 def random_day(n: int, sites: int, *, seed: int = 0, classes: int = 1,

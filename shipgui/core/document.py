@@ -1,0 +1,180 @@
+"""The day being edited, as plain state (no Qt): the app's document.
+
+The document keeps the raw inputs (jobs, sites, travel pairs, settings) rather
+than a validated :class:`~shipgui.core.model.Day`, because an edit may make the
+day invalid for a while; :meth:`DayDocument.build` turns the inputs into a Day
+(or raises :class:`~shipgui.core.errors.InputErrors`).  Undo commands call the mutating
+methods; listeners hear about each change before and after it happens so that a
+table model can announce inserted and removed rows correctly.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from datetime import date
+from pathlib import Path
+
+from .day import build_inputs
+from .io.plan_file import read_plan_file, write_plan_file
+from .model import Day, DayInputs, Job, Settings, Site
+
+__all__ = ["Change", "DayDocument", "JOB_FIELDS"]
+
+JOB_FIELDS = ("id", "origin", "destination", "start", "end", "vehicle_class",
+              "customer", "reference", "notes")
+
+
+@dataclass(frozen=True)
+class Change:
+    """What changed: ``kind`` is one of "job", "insert", "remove", "reset", "inputs"."""
+
+    kind: str
+    row: int = -1
+    field: str = ""
+
+
+Listener = Callable[[Change, bool], None]  # (change, done): done is False before, True after
+
+
+@dataclass
+class DayDocument:
+    """Jobs, sites, travel pairs and settings of one day, plus names for vehicles."""
+
+    jobs: list[Job] = field(default_factory=list)
+    sites: list[Site] = field(default_factory=list)
+    travel: dict[tuple[str, str], tuple[int, int]] = field(default_factory=dict)
+    settings: Settings = field(default_factory=Settings)
+    plan_date: date | None = None
+    sources: dict[str, str] = field(default_factory=dict)
+    driver_names: dict[int, str] = field(default_factory=dict)
+    path: Path | None = None  # the plan file, once saved or opened
+    _listeners: list[Listener] = field(default_factory=list, repr=False, compare=False)
+
+    # ------------------------------------------------------------ listeners
+    def subscribe(self, listener: Listener) -> None:
+        self._listeners.append(listener)
+
+    def unsubscribe(self, listener: Listener) -> None:
+        self._listeners.remove(listener)
+
+    def _notify(self, change: Change, done: bool) -> None:
+        for listener in list(self._listeners):
+            listener(change, done)
+
+    # ------------------------------------------------------------ reading
+    @property
+    def title(self) -> str:
+        """A short name for the window title."""
+        if self.path is not None:
+            return self.path.name
+        if "jobs" in self.sources:
+            return Path(self.sources["jobs"]).name
+        return "Untitled day"
+
+    def row_of(self, job_id: str) -> int:
+        """Row of the job with this id, or -1."""
+        for row, job in enumerate(self.jobs):
+            if job.id == job_id:
+                return row
+        return -1
+
+    def has_job_id(self, job_id: str, *, except_row: int = -1) -> bool:
+        return any(j.id == job_id for r, j in enumerate(self.jobs) if r != except_row)
+
+    def new_job_id(self) -> str:
+        """An id not used yet: N1, N2, ..."""
+        used = {j.id for j in self.jobs}
+        k = 1
+        while f"N{k}" in used:
+            k += 1
+        return f"N{k}"
+
+    def inputs(self) -> DayInputs:
+        """A copy of the current inputs (safe to hand to another thread)."""
+        return DayInputs(tuple(self.jobs), tuple(self.sites), dict(self.travel),
+                         self.settings, self.plan_date, dict(self.sources),
+                         dict(self.driver_names))
+
+    @classmethod
+    def from_inputs(cls, inputs: DayInputs, path: Path | None = None) -> DayDocument:
+        return cls(list(inputs.jobs), list(inputs.sites), dict(inputs.travel), inputs.settings,
+                   inputs.plan_date, dict(inputs.sources), dict(inputs.driver_names), path)
+
+    @classmethod
+    def open(cls, path: str | Path) -> DayDocument:
+        """Open a plan file; InputError(s) name every problem."""
+        return cls.from_inputs(read_plan_file(path), Path(path))
+
+    def save(self, path: str | Path) -> None:
+        """Write the plan file (all or nothing; OSError says why not)."""
+        write_plan_file(self.inputs(), path)
+
+    def build(self) -> Day:
+        """A validated day from the current inputs; raises InputErrors."""
+        return build_inputs(self.inputs())
+
+    # ------------------------------------------------------------ editing
+    def set_job_field(self, row: int, name: str, value: str | int) -> None:
+        """Replace one field of one job (the value is already checked)."""
+        if name not in JOB_FIELDS:
+            raise KeyError(name)
+        change = Change("job", row, name)
+        self._notify(change, False)
+        self.jobs[row] = dataclasses.replace(self.jobs[row], **{name: value})
+        self._notify(change, True)
+
+    def insert_job(self, row: int, job: Job) -> None:
+        change = Change("insert", row)
+        self._notify(change, False)
+        self.jobs.insert(row, job)
+        self._notify(change, True)
+
+    def remove_job(self, row: int) -> Job:
+        change = Change("remove", row)
+        self._notify(change, False)
+        job = self.jobs.pop(row)
+        self._notify(change, True)
+        return job
+
+    def set_settings(self, settings: Settings) -> None:
+        change = Change("inputs", field="settings")
+        self._notify(change, False)
+        self.settings = settings
+        self._notify(change, True)
+
+    def set_sites(self, sites: list[Site], source: str | None) -> None:
+        self._set_companion("sites", sites, source)
+
+    def set_travel(self, travel: dict[tuple[str, str], tuple[int, int]],
+                   source: str | None) -> None:
+        self._set_companion("travel", travel, source)
+
+    def _set_companion(self, kind: str, value, source: str | None) -> None:
+        change = Change("inputs", field=kind)
+        self._notify(change, False)
+        setattr(self, kind, value)
+        if source:
+            self.sources[kind] = source
+        else:
+            self.sources.pop(kind, None)
+        self._notify(change, True)
+
+    def set_driver_name(self, vehicle: int, name: str) -> None:
+        change = Change("inputs", field="driver_names")
+        self._notify(change, False)
+        if name:
+            self.driver_names[vehicle] = name
+        else:
+            self.driver_names.pop(vehicle, None)
+        self._notify(change, True)
+
+    def replace_all(self, other: DayDocument) -> None:
+        """Take over every input of ``other`` (opening a new day in this window)."""
+        change = Change("reset")
+        self._notify(change, False)
+        for f in dataclasses.fields(self):
+            if f.name != "_listeners":
+                setattr(self, f.name, getattr(other, f.name))
+        self._notify(change, True)

@@ -1,0 +1,69 @@
+"""The plan as the contract's JSON document (plus a few extra keys)."""
+
+from __future__ import annotations
+
+import json
+
+from ..clock import format_clock, format_clock_or_none
+from ..clock import minutes_value as _minutes
+from ..model import Plan
+
+__all__ = ["plan_to_dict", "plan_to_json"]
+
+
+def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
+                 driver_names: dict[int, str] | None = None) -> dict:
+    """Fixed keys: vehicles, routes (vehicle, jobs), certificate.jobs, verified.
+
+    ``driver_names`` (vehicle number -> name, as typed in the app) adds a
+    ``driver`` to the routes that have one.
+    """
+    day = plan.day
+    names = driver_names or {}
+    routes = []
+    for number, (route, ids) in enumerate(zip(plan.routes, plan.route_ids()), start=1):
+        entry = {"vehicle": number, "jobs": ids,
+                 "first_start": format_clock(day.jobs[route[0]].start),
+                 "last_end": format_clock(day.jobs[route[-1]].end)}
+        if plan.route_deadhead_seconds:
+            entry["deadhead_minutes"] = _minutes(plan.route_deadhead_seconds[number - 1])
+        if names.get(number):
+            entry["driver"] = names[number]
+        routes.append(entry)
+    extra: dict = {}
+    if plan.tradeoff:
+        # deadhead_minutes: least with at most k vehicles (never rises with k);
+        # exactly_k_deadhead_minutes: least with all k vehicles out.
+        extra["tradeoff"] = [{"vehicles": k, "deadhead_minutes": _minutes(d),
+                              "exactly_k_deadhead_minutes": _minutes(e)}
+                             for (k, d), (_, e) in zip(plan.tradeoff, plan.tradeoff_exact)]
+    if cost_model is not None:
+        extra["cost_model"] = cost_model
+    return {
+        "vehicles": plan.vehicles,
+        "routes": routes,
+        "certificate": {"jobs": plan.certificate_ids()},
+        "verified": bool(plan.verified),
+        "deadhead_minutes": _minutes(plan.deadhead_seconds),
+        "least_deadhead": plan.least_deadhead,
+        "jobs": day.n,
+        "plan_date": day.plan_date.isoformat() if day.plan_date else None,
+        "fingerprint": day.fingerprint,
+        "warnings": list(day.warnings),
+        "travel_pairs_shortened": day.shortened_pairs,
+        "settings": {
+            "turnaround_minutes": _minutes(day.settings.turnaround),
+            "depot": day.settings.depot,
+            "day_start": format_clock_or_none(day.settings.day_start),
+            "day_end": format_clock_or_none(day.settings.day_end),
+            "speed_kmh": day.settings.speed_kmh,
+            "circuity": day.settings.circuity,
+        },
+        **extra,
+    }
+
+
+def plan_to_json(plan: Plan, *, cost_model: dict | None = None,
+                 driver_names: dict[int, str] | None = None) -> str:
+    return json.dumps(plan_to_dict(plan, cost_model=cost_model, driver_names=driver_names),
+                      indent=2, ensure_ascii=False) + "\n"

@@ -1,0 +1,341 @@
+"""Least empty driving among minimum-fleet plans, and the fleet / empty-driving trade-off.
+
+Empty driving (deadhead) of a plan is the drive from each job's destination to
+the next job's origin, plus pull-out from and pull-in to the depot when one is
+set.  Writing ``pin(s) = T[s, depot]`` and ``pout(j) = T[depot, origin_j]``,
+
+    deadhead = sum over all jobs of (pout + pin)  +  sum over links i -> j of cost(i, j),
+    cost(i, j) = T[destination_i, origin_j] - pin(destination_i) - pout(j),
+
+so a link's cost depends only on i's destination site (its group in the
+:class:`~shipgui.core.fleet.precedence.PrefixIndex`) and on j.
+
+The plan is a minimum-cost flow of exactly F units, F the maximum matching
+(so the fleet stays minimal), on the split graph in compressed form
+(Ahuja, Magnanti & Orlin, Network Flows, 1993, ch. 9, for the split-graph
+formulation; the waiting chain per site follows the time-space idea of
+Kliewer, Mellouli & Suhl, "A time-space network based exact optimization model
+for multi-depot bus scheduling", EJOR 175, 2006):
+
+    source -> i (capacity 1)            i may link to a successor
+    i -> next job of i's group          waiting at the site (free, unbounded)
+    latest[j, g] -> j' (cost(g, j))     the whole prefix of group g reaches j
+    j' -> sink (capacity 1)             j may have a predecessor
+
+Every flow path source -> i -> ... -> j' -> sink is a compatible link i -> j
+at its exact cost, and every set of links is such a flow, so the optimum is
+the optimum over all O(n^2) compatible pairs while the network has only
+O(n * sites) arcs.  It is solved by cost scaling (:mod:`._flow_kernel`).
+
+The trade-off then takes one unit of flow off at a time along a cheapest
+residual path: successive shortest paths in reverse give the least link cost
+with exactly F - 1, F - 2, ... links (Ahuja, Magnanti & Orlin 1993, section 9.7).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..model import Day
+from ._flow_kernel import INF, Residual, cancel_one_unit, cost_scaling, repair, tighten_prices
+from .precedence import PrefixIndex
+
+__all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution"]
+
+_ALPHA = 32  # cost-scaling factor between phases
+_WARM_DIV = 1024  # a warm start begins near the final precision
+_MARGIN = 0.05  # also price in arcs within 5 % of the worst violation (fewer rounds)
+_REPAIR_LIMIT = 100  # arcs priced in at once: re-optimise by shortest paths up to this
+_CANDIDATE_GROUPS = 12  # first round: link arcs from each successor's cheapest groups
+
+
+@dataclass(frozen=True, eq=False)
+class ClassCosts:
+    """Link costs of one vehicle class: ``cost[j, g]`` seconds for linking any job of
+    group g before local job j (valid where ``index.latest[j, g] >= 0``)."""
+
+    index: PrefixIndex
+    cost: np.ndarray
+    base: int
+    group_of: np.ndarray  # local job -> its destination group
+
+
+@dataclass(frozen=True)
+class LinkSolution:
+    """``succ[i]``: local job after local job i (-1: i ends a route).
+
+    ``curve[s]``: least link cost with exactly ``links - s`` links (s = 0 is
+    ``link_cost``), for as many s as were asked and possible.
+    """
+
+    succ: np.ndarray
+    links: int
+    link_cost: int  # sum of cost over the links (seconds)
+    curve: tuple[int, ...]
+    rounds: int  # pricing rounds
+
+
+def class_costs(day: Day, index: PrefixIndex) -> ClassCosts:
+    t = day.travel
+    origin = day.origin[index.jobs]
+    dest = day.destination[index.jobs]
+    cost = t[index.group_site][:, origin].T.astype(np.int64)  # (m, G)
+    base = 0
+    if day.settings.depot is not None:
+        d = day.site_index[day.settings.depot]
+        pin_group = t[index.group_site, d]
+        pout = t[d, origin]
+        cost = cost - pin_group[None, :] - pout[:, None]
+        base = int(pout.sum() + t[dest, d].sum())
+    group_of = np.empty(index.m, dtype=np.int64)
+    group_of[index.order] = index.group_of_position()
+    return ClassCosts(index, cost, base, group_of)
+
+
+@dataclass(frozen=True, eq=False)
+class _Network:
+    residual: Residual  # first, head, rev, cost of every residual slot
+    cap: np.ndarray  # capacity of every slot with no flow
+    slot: np.ndarray  # residual slot of each forward arc
+    fixed: int  # forward arcs before the link arcs (the same in every round)
+    links: slice  # forward arcs position -> successor
+    start_pos: np.ndarray  # position of each source arc (the first forward arcs)
+    link_key: np.ndarray  # j * groups + g of each link arc, increasing
+    source: int
+    sink: int
+    scale: int
+
+    @property
+    def nodes(self) -> int:
+        return len(self.residual.first) - 1
+
+    def link_flow(self, cap: np.ndarray) -> np.ndarray:
+        return self.cap[self.slot[self.links]] - cap[self.slot[self.links]]
+
+
+def _network(costs: ClassCosts, allowed: np.ndarray) -> _Network:
+    """The network with the link arcs of the ``allowed`` compatible (j, g) pairs."""
+    index = costs.index
+    m, n_groups = index.latest.shape
+    lat = index.latest
+    valid = lat >= 0
+    js, gs = np.nonzero(allowed & valid)  # by successor, then group
+    q = lat[js, gs].astype(np.int64)
+    gpos = index.group_of_position()
+    reach = lat.max(axis=0).astype(np.int64)  # last position of each group that links
+    pos = np.arange(m, dtype=np.int64)
+    useful = pos <= reach[gpos]
+    nxt = pos + 1
+    chain = useful & (nxt < index.group_start[gpos + 1]) & (nxt <= reach[gpos])
+    succ_jobs = np.flatnonzero(valid.any(axis=1))
+    source, sink = 2 * m, 2 * m + 1
+    n_nodes = 2 * m + 2
+    scale = n_nodes + 1  # costs x (nodes + 1): a 1-optimal flow is optimal
+    start_pos = pos[useful]
+    parts = [  # (tail, head, capacity, cost); links last, so the others keep their numbers
+        (np.full(len(start_pos), source), start_pos, 1, 0),
+        (pos[chain], nxt[chain], m, 0),
+        (m + succ_jobs, np.full(len(succ_jobs), sink), 1, 0),
+        (q, m + js, 1, costs.cost[js, gs] * scale),
+    ]
+    sizes = [len(p[0]) for p in parts]
+    n_arcs = sum(sizes)
+    fixed = n_arcs - sizes[-1]
+    tail = np.concatenate([p[0] for p in parts]).astype(np.int64)
+    head = np.concatenate([p[1] for p in parts]).astype(np.int64)
+    cap = np.concatenate([np.full(k, p[2], dtype=np.int64) for p, k in zip(parts, sizes)])
+    cost = np.concatenate([np.full(k, p[3], dtype=np.int64) if np.isscalar(p[3])
+                           else p[3].astype(np.int64) for p, k in zip(parts, sizes)])
+    # Residual slots: forward arcs, then their reverses (capacity 0, cost negated),
+    # grouped by tail node.
+    all_tail = np.concatenate([tail, head])
+    order = np.argsort(all_tail, kind="stable")
+    slot = np.empty(2 * n_arcs, dtype=np.int64)
+    slot[order] = np.arange(2 * n_arcs)
+    partner = np.concatenate([np.arange(n_arcs, 2 * n_arcs), np.arange(n_arcs)])
+    rev = np.empty(2 * n_arcs, dtype=np.int64)
+    rev[slot] = slot[partner]
+    first = np.searchsorted(all_tail[order], np.arange(n_nodes + 1)).astype(np.int64)
+    residual = Residual(first, np.concatenate([head, tail])[order], rev,
+                        np.concatenate([cost, -cost])[order])
+    return _Network(
+        residual=residual, cap=np.concatenate([cap, np.zeros(n_arcs, dtype=np.int64)])[order],
+        slot=slot[:n_arcs], fixed=fixed,
+        links=slice(fixed, n_arcs), start_pos=start_pos,
+        link_key=js.astype(np.int64) * n_groups + gs, source=source, sink=sink, scale=scale)
+
+
+def _initial_allowed(costs: ClassCosts) -> np.ndarray:
+    """Per successor, the link arcs from its few cheapest groups (a copy)."""
+    valid = costs.index.latest >= 0
+    m, n_groups = valid.shape
+    if n_groups <= _CANDIDATE_GROUPS:
+        return valid.copy()
+    masked = np.where(valid, costs.cost, np.iinfo(np.int64).max)
+    best = np.argpartition(masked, _CANDIDATE_GROUPS - 1, axis=1)[:, :_CANDIDATE_GROUPS]
+    allowed = np.zeros((m, n_groups), dtype=bool)
+    np.put_along_axis(allowed, best, True, axis=1)
+    return allowed & valid
+
+
+def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
+                     check: Callable[[], None] | None = None) -> LinkSolution:
+    """The least-cost set of as many links as ``matching`` has, for one class.
+
+    ``matching``: a succ array (-1: no successor), normally a maximum matching,
+    so the fleet stays minimal; its links also make the first round feasible.
+    ``extra``: also the least cost with links - 1, ..., links - extra.
+    ``check`` is called between rounds (it may raise to stop the solve).
+
+    Link arcs are priced in (column generation; e.g. Desrosiers & Lübbecke, "A
+    primer in column generation", in Column Generation, Springer 2005): the
+    flow is solved on each successor's cheapest groups, exact duals are
+    computed, and every left-out arc with a negative reduced cost (and those
+    within ``_MARGIN`` of the worst violation) is added before solving again,
+    warm-started from the previous flow and prices.  It
+    stops when no arc of the full network has a negative reduced cost, which
+    proves the flow optimal on the full network.  The same check follows every
+    step of the trade-off.
+    """
+    m = costs.index.m
+    linked = np.flatnonzero(matching >= 0)
+    links = len(linked)
+    if links == 0:
+        return LinkSolution(np.full(m, -1, dtype=np.int64), 0, 0, (0,), 0)
+    allowed = _initial_allowed(costs)
+    allowed[matching[linked], costs.group_of[linked]] = True
+    flow = _PricedFlow(costs, allowed, links, check or (lambda: None))
+    succ = flow.links()
+    linked = np.flatnonzero(succ >= 0)
+    link_cost = int(costs.cost[succ[linked], costs.group_of[linked]].sum())
+    if len(linked) != links:
+        raise RuntimeError("least-deadhead flow does not have the asked number of links")
+    if link_cost != flow.link_cost():
+        raise RuntimeError("least-deadhead links do not match their flow")
+    curve = [link_cost]
+    for _ in range(min(extra, links)):
+        flow.check()
+        flow.take_one_unit()
+        curve.append(flow.link_cost())
+    return LinkSolution(succ, links, link_cost, tuple(curve), flow.rounds)
+
+
+class _PricedFlow:
+    """A least-cost flow on the network of the allowed link arcs, kept optimal on
+    the full network by adding every priced-out arc and solving again."""
+
+    def __init__(self, costs: ClassCosts, allowed: np.ndarray, links: int,
+                 check: Callable[[], None]):
+        self.costs = costs
+        self.check = check
+        self.allowed = allowed
+        index = costs.index
+        self.js, self.gs = np.nonzero(index.latest >= 0)
+        self.q = index.latest[self.js, self.gs].astype(np.int64)
+        self.rounds = 0
+        self.net = _network(costs, allowed)
+        self.cap = self.net.cap.copy()
+        self.price = np.zeros(self.net.nodes, dtype=np.int64)
+        excess = np.zeros(len(self.price), dtype=np.int64)
+        excess[self.net.source] = links
+        excess[self.net.sink] = -links
+        self._scale(excess, 0)  # from scratch on the first arcs
+        self._price_in()
+
+    def _scale(self, excess: np.ndarray, eps: int) -> None:
+        net = self.net
+        self.rounds += 1
+        if not cost_scaling(net.residual, self.cap, excess, self.price, eps, _ALPHA,
+                            _ALPHA if eps <= 0 else _WARM_DIV):
+            raise RuntimeError("least-deadhead flow: the matching's links could not be routed")
+        if not tighten_prices(net.residual, self.cap, self.price):
+            raise RuntimeError("least-deadhead flow is not optimal (negative cycle)")
+
+    def _price_in(self) -> None:
+        """Add left-out arcs with a negative reduced cost and re-optimise until
+        there are none: many at once by a warm-started cost scaling, a few by
+        primal-dual shortest paths from the exact prices."""
+        while True:
+            self.check()
+            priced = self._priced_out()
+            if priced is None:
+                return
+            violation, count = priced
+            zero = np.zeros(len(self.price), dtype=np.int64)
+            if count > _REPAIR_LIMIT:
+                self._scale(zero, violation)
+                continue
+            self.rounds += 1
+            net, cap = self.net, self.cap
+            res = net.residual
+            tail = np.repeat(np.arange(net.nodes), np.diff(res.first))
+            reduced = res.cost + self.price[tail] - self.price[res.head]
+            bad = np.flatnonzero((cap > 0) & (reduced < 0))
+            np.subtract.at(zero, tail[bad], cap[bad])
+            np.add.at(zero, res.head[bad], cap[bad])
+            cap[res.rev[bad]] += cap[bad]
+            cap[bad] = 0
+            if not repair(res, cap, self.price, zero):
+                raise RuntimeError("least-deadhead flow: could not rebalance after pricing")
+
+    def _priced_out(self) -> tuple[int, int] | None:
+        """Add the left-out arcs with a negative reduced cost (and near misses)
+        and carry the flow over to the larger network: (largest violation,
+        number of violated arcs), or None when no arc is violated."""
+        js, gs, m = self.js, self.gs, self.costs.index.m
+        reduced = self.costs.cost[js, gs] * self.net.scale + self.price[self.q] \
+            - self.price[m + js]
+        new = ~self.allowed[js, gs]
+        violated = (reduced < 0) & new
+        if not violated.any():
+            return None
+        worst = int(-reduced[violated].min())
+        margin = int(_MARGIN * worst)  # also near misses, which the re-optimisation may need
+        missing = violated | (new & (reduced < margin)) if margin > 0 else violated
+        self.allowed[js[missing], gs[missing]] = True
+        old, old_cap = self.net, self.cap
+        net = _network(self.costs, self.allowed)
+        flow = np.zeros(len(net.slot), dtype=np.int64)
+        flow[:old.fixed] = (old.cap - old_cap)[old.slot[:old.fixed]]
+        flow[net.fixed + np.searchsorted(net.link_key, old.link_key)] = old.link_flow(old_cap)
+        cap = net.cap.copy()
+        cap[net.slot] -= flow
+        cap[net.residual.rev[net.slot]] += flow
+        self.net, self.cap = net, cap
+        return worst, int(violated.sum())
+
+    def links(self) -> np.ndarray:
+        """succ array of the current flow."""
+        net, index = self.net, self.costs.index
+        n_groups = index.latest.shape[1]
+        used = net.link_flow(self.cap) > 0
+        entering = net.start_pos[(net.cap - self.cap)[net.slot[:len(net.start_pos)]] > 0]
+        key = net.link_key[used]
+        position = index.latest.reshape(-1)[key].astype(np.int64)
+        job = key // n_groups
+        leave = np.lexsort((job, position))
+        succ = np.full(index.m, -1, dtype=np.int64)
+        if len(entering) != len(leave):
+            raise RuntimeError("least-deadhead flow is not balanced")
+        # Within a group, the k-th vehicle to become free takes the k-th link to
+        # leave (first in, first out); the flow on the waiting arcs guarantees
+        # it is ready in time.
+        succ[index.order[entering]] = job[leave]
+        return succ
+
+    def link_cost(self) -> int:
+        """Total cost of the current links (seconds)."""
+        net = self.net
+        link_cost = net.residual.cost[net.slot[net.links]]
+        return int(net.link_flow(self.cap) @ link_cost) // net.scale
+
+    def take_one_unit(self) -> None:
+        """Remove one link at least extra cost (the flow stays optimal)."""
+        net = self.net
+        step = cancel_one_unit(net.residual, self.cap, self.price, net.source, net.sink)
+        if step >= INF:
+            raise RuntimeError("least-deadhead trade-off: no link to remove")
+        self._price_in()

@@ -1,0 +1,70 @@
+"""Independent check of a plan, written separately and kept simple on purpose.
+
+It shares no code with the solver: it reads the day's raw arrays and the closed
+travel matrix and checks, with the contract's formula, that
+
+1. the routes use every job exactly once,
+2. in every route each job can follow the one before,
+3. the travel matrix obeys the triangle inequality (so "can follow" is
+   transitive and no route can hide two certificate jobs),
+4. the certificate jobs pairwise cannot follow each other, and
+5. there are as many certificate jobs as routes.
+
+Together these prove the plan is a minimum fleet (Dilworth, "A decomposition
+theorem for partially ordered sets", Annals of Mathematics 51(1), 1950): each
+vehicle does at most one certificate job, so no plan has fewer vehicles.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..model import Day
+
+__all__ = ["check_plan"]
+
+
+def _follows(day: Day, i: np.ndarray, j: np.ndarray) -> np.ndarray:
+    """Elementwise: can job j follow job i (contract section 1)?"""
+    same_class = day.vclass[i] == day.vclass[j]
+    arrive = day.end[i] + day.settings.turnaround + day.travel[day.destination[i], day.origin[j]]
+    return same_class & (arrive <= day.start[j]) & (i != j)
+
+
+def check_plan(day: Day, routes, certificate) -> list[str]:
+    """Return the list of failures (empty when the plan is proven minimum)."""
+    failures: list[str] = []
+    n = day.n
+    flat = np.array([k for route in routes for k in route], dtype=np.int64)
+    counts = np.bincount(flat, minlength=n) if len(flat) else np.zeros(n, np.int64)
+    if len(flat) and (flat.min() < 0 or flat.max() >= n):
+        return ["a route names a job that does not exist"]
+    if np.any(counts != 1):
+        failures.append(f"{int(np.sum(counts == 0))} jobs are in no route and "
+                        f"{int(np.sum(counts > 1))} in more than one")
+    for number, route in enumerate(routes, start=1):
+        r = np.asarray(route, dtype=np.int64)
+        if len(r) == 0:
+            failures.append(f"vehicle {number} has no jobs")
+        elif len(r) > 1 and not np.all(_follows(day, r[:-1], r[1:])):
+            failures.append(f"vehicle {number}: a job cannot follow the one before it")
+    if np.any(day.end <= day.start):
+        failures.append("a job ends before it starts")
+    t = day.travel
+    for b in range(t.shape[0]):
+        if np.any(t[:, b, None] + t[None, b, :] < t):
+            failures.append("travel times break the triangle inequality")
+            break
+    cert = np.asarray(certificate, dtype=np.int64)
+    if len(np.unique(cert)) != len(cert):
+        failures.append("a certificate job is listed twice")
+    if len(cert) != len(routes):
+        failures.append(f"{len(cert)} certificate jobs but {len(routes)} routes")
+    step = max(1, (1 << 22) // max(len(cert), 1))
+    for a in range(0, len(cert), step):
+        i = cert[a:a + step, None]
+        j = cert[None, :]
+        if np.any(_follows(day, i, j)):
+            failures.append("two certificate jobs could share a vehicle")
+            break
+    return failures

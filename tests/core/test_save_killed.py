@@ -1,0 +1,66 @@
+"""Saving is atomic: a saver killed (SIGKILL) at random moments leaves either the
+old plan or the new plan, opened with the real loader, never a damaged file.
+
+Rounds per mode: ``SHIPGUI_KILL_ROUNDS`` (default 100).
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import random
+import signal
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import pytest
+
+from shipgui.core.document import DayDocument
+
+from .kill_saver import plan_bytes
+
+ROUNDS = int(os.environ.get("SHIPGUI_KILL_ROUNDS", "100"))
+HERE = Path(__file__).resolve().parent
+
+pytestmark = pytest.mark.skipif(not hasattr(os, "fork"), reason="needs fork and SIGKILL")
+
+
+def _load(mode: str, path: Path):
+    if mode == "plan":
+        return DayDocument.open(path)  # the real loader; raises on a damaged file
+    return json.loads(path.read_bytes())
+
+
+@pytest.mark.parametrize("mode", ["plan", "bytes"])
+def test_killed_save_leaves_old_or_new_plan(mode, tmp_path):
+    old, new = plan_bytes(mode)
+    path = tmp_path / "day.shipgui"
+    path.write_bytes(old)
+    child = subprocess.Popen([sys.executable, str(HERE / "kill_saver.py"), mode, str(path)],
+                             stdin=subprocess.PIPE, stdout=subprocess.PIPE, text=True)
+    rng = random.Random(20261202)
+    seen = {old: 0, new: 0}
+    try:
+        assert child.stdout.readline().strip() == "ready"
+        for _ in range(ROUNDS):
+            child.stdin.write("go\n")
+            child.stdin.flush()
+            saver = int(child.stdout.readline())
+            time.sleep(rng.uniform(0.0, 0.08))
+            os.kill(saver, signal.SIGKILL)
+            child.stdin.write("reap\n")
+            child.stdin.flush()
+            assert child.stdout.readline().strip() == "reaped"
+            content = path.read_bytes()
+            assert content in seen, f"damaged plan file ({len(content)} bytes)"
+            seen[content] += 1
+            _load(mode, path)
+    finally:
+        child.stdin.close()
+        child.wait(timeout=30)
+    leftovers = [p for p in tmp_path.iterdir() if p != path]
+    print(f"{mode}: {ROUNDS} kills, old plan {seen[old]}x, new plan {seen[new]}x, "
+          f"{len(leftovers)} temporary files left by kills mid-write")
+    assert seen[old] and seen[new]  # the kills did land at different moments
