@@ -13,7 +13,7 @@ from PySide6.QtWidgets import QApplication
 from shipgui.resources import resource_path
 
 from .main_window import MainWindow
-from .settings import APPLICATION, ORGANISATION, AppSettings
+from .services.settings import APPLICATION, ORGANISATION, AppSettings
 
 __all__ = ["run", "make_application", "open_window", "save_screenshot"]
 

@@ -21,8 +21,8 @@ from shipgui.core.io.files import write_bytes_atomic
 from shipgui.core.io.plan_file import PLAN_SUFFIX
 from shipgui.core.io.readers import read_inputs
 
-from .commands import AttachSites, AttachTravel
-from .problems import ProblemsDialog
+from .models.commands import AttachSites, AttachTravel
+from .panels.problems import ProblemsDialog
 
 if TYPE_CHECKING:
     from .main_window import MainWindow

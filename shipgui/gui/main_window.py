@@ -21,18 +21,18 @@ from shipgui.core import Job, Plan, Problem
 from shipgui.core.caution import CAUTION
 from shipgui.core.document import Change, DayDocument
 
-from .answer_bar import AnswerBar
-from .autosave import Autosaver, find_recoveries
-from .certificate_panel import CertificatePanel
-from .commands import AddJob, ChangeSettings, DeleteJobs, RenameDriver
 from .file_actions import FileActions
-from .inputs_panel import InputsPanel
-from .jobs_model import Column, JobsModel
-from .jobs_panel import JobsPanel
-from .problems import ProblemList
-from .settings import AppSettings
-from .timeline import TimelineView
-from .worker import SolveController, snapshot
+from .models.commands import AddJob, ChangeSettings, DeleteJobs, RenameDriver
+from .models.jobs_model import Column, JobsModel
+from .panels.answer_bar import AnswerBar
+from .panels.certificate_panel import CertificatePanel
+from .panels.inputs_panel import InputsPanel
+from .panels.jobs_panel import JobsPanel
+from .panels.problems import ProblemList
+from .panels.timeline import TimelineView
+from .services.autosave import Autosaver, find_recoveries
+from .services.settings import AppSettings
+from .services.worker import SolveController, snapshot
 
 __all__ = ["MainWindow", "CAUTION"]
 

@@ -9,7 +9,7 @@ from PySide6.QtCore import QThreadPool
 
 from shipgui.core.document import DayDocument
 from shipgui.gui.main_window import MainWindow
-from shipgui.gui.settings import AppSettings
+from shipgui.gui.services.settings import AppSettings
 from tests.support.documents import small_document  # noqa: F401 - used by the tests here
 
 WAIT_MS = 20_000

@@ -10,8 +10,8 @@ from PySide6.QtWidgets import QApplication
 
 from shipgui.core import solve_day
 from shipgui.core.clock import format_duration
-from shipgui.gui import worker
-from shipgui.gui.answer_bar import saving_text, tradeoff_html, tradeoff_rows
+from shipgui.gui.panels.answer_bar import saving_text, tradeoff_html, tradeoff_rows
+from shipgui.gui.services import worker
 
 from .conftest import load_and_wait, small_document
 

@@ -15,9 +15,9 @@ from shipgui.core import InputError
 from shipgui.core.document import DayDocument
 from shipgui.core.io.plan_file import SCHEMA_VERSION
 from shipgui.gui.app import open_window
-from shipgui.gui.autosave import AUTOSAVE_MS, find_recoveries
-from shipgui.gui.commands import DeleteJobs
 from shipgui.gui.main_window import MainWindow
+from shipgui.gui.models.commands import DeleteJobs
+from shipgui.gui.services.autosave import AUTOSAVE_MS, find_recoveries
 
 from .conftest import WAIT_MS, load_and_wait, small_document
 

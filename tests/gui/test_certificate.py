@@ -8,7 +8,7 @@ from PySide6.QtTest import QAbstractItemModelTester
 
 from shipgui.core import Job, solve_day
 from shipgui.core.demo import load_demo
-from shipgui.gui.certificate_panel import (
+from shipgui.gui.panels.certificate_panel import (
     CertificatePanel,
     PairColumn,
     PairsModel,

@@ -9,7 +9,7 @@ from PySide6.QtGui import QUndoStack
 
 from shipgui.core import InputError, Job, Settings, Site
 from shipgui.core.document import Change, DayDocument
-from shipgui.gui.commands import (
+from shipgui.gui.models.commands import (
     AddJob,
     AttachSites,
     AttachTravel,

@@ -8,8 +8,8 @@ from PySide6.QtGui import QUndoStack
 from PySide6.QtTest import QAbstractItemModelTester
 
 from shipgui.core import Job, solve_day
-from shipgui.gui.commands import AddJob, DeleteJobs
-from shipgui.gui.jobs_model import Column, JobRole, JobsFilterModel, JobsModel, check_field
+from shipgui.gui.models.commands import AddJob, DeleteJobs
+from shipgui.gui.models.jobs_model import Column, JobRole, JobsFilterModel, JobsModel, check_field
 
 from .conftest import small_document
 

@@ -13,8 +13,8 @@ from PySide6.QtWidgets import QFileDialog, QMessageBox
 from shipgui.core import Settings
 from shipgui.core.demo import demo_files
 from shipgui.gui import file_actions
-from shipgui.gui.jobs_model import Column
 from shipgui.gui.main_window import CAUTION, MainWindow
+from shipgui.gui.models.jobs_model import Column
 
 from .conftest import WAIT_MS, load_and_wait, small_document
 
@@ -316,7 +316,7 @@ def test_double_click_vehicle_names_its_driver(qtbot, small_window, monkeypatch)
     from PySide6.QtTest import QTest
     from PySide6.QtWidgets import QInputDialog
 
-    from shipgui.gui.timeline import AXIS_HEIGHT, ROW_HEIGHT
+    from shipgui.gui.panels.timeline import AXIS_HEIGHT, ROW_HEIGHT
     w = small_window
     w.show()
     monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("Ada Fenwick", True))

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from shipgui.gui.settings import DEFAULTS, MAX_RECENT, AppSettings
+from shipgui.gui.services.settings import DEFAULTS, MAX_RECENT, AppSettings
 
 
 def test_defaults(app_settings):

@@ -8,7 +8,7 @@ import time
 from PySide6.QtCore import QThreadPool
 
 from shipgui.core import Job
-from shipgui.gui.worker import SolveController, SolveWorker, snapshot
+from shipgui.gui.services.worker import SolveController, SolveWorker, snapshot
 from tests.support.days import regional_day
 
 from .conftest import WAIT_MS, small_document

@@ -16,7 +16,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from .jobs_model import Column, JobRole, JobsFilterModel, JobsModel
+from ..models.jobs_model import Column, JobRole, JobsFilterModel, JobsModel
 
 __all__ = ["JobsPanel"]
 

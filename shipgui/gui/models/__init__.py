@@ -1,0 +1,1 @@
+"""Qt models over the day being edited, and the undo commands that change it."""

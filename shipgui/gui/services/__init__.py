@@ -1,0 +1,1 @@
+"""Work behind the window: solving in the background, autosave, stored preferences."""
