@@ -72,6 +72,9 @@ class Settings:
     day_end: int | None = None
     speed_kmh: float = DEFAULT_SPEED_KMH
     circuity: float = DEFAULT_CIRCUITY
+    # Longest working day of one vehicle (pull-out to pull-in with a depot, first
+    # start to last end without); None: no limit.
+    max_day: int | None = None
 
 
 # (from site, to site) -> (seconds, row in the travel file)
@@ -184,10 +187,24 @@ class Plan:
     tradeoff_exact: tuple[tuple[int, int], ...] = ()
     least_deadhead: bool = False  # routes chosen for least empty driving
     verification_failures: tuple[str, ...] = ()
+    # Proven: no plan under the same rules has fewer vehicles (None: the fleet
+    # itself, proven by the certificate's size).  With a working-day limit the
+    # bound may stay below the plan; ``certificate_weights`` (job index ->
+    # weight, no valid route carrying more than 1) then prove ceil(sum).
+    bound: int | None = None
+    certificate_weights: tuple[tuple[int, float], ...] = ()
 
     @property
     def vehicles(self) -> int:
         return len(self.routes)
+
+    @property
+    def lower_bound(self) -> int:
+        return self.vehicles if self.bound is None else self.bound
+
+    @property
+    def proven_minimum(self) -> bool:
+        return self.lower_bound >= self.vehicles
 
     def route_ids(self) -> list[list[str]]:
         return [[self.day.jobs[k].id for k in route] for route in self.routes]

@@ -41,8 +41,10 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         extra["cost_model"] = cost_model
     return {
         "vehicles": plan.vehicles,
+        "lower_bound": plan.lower_bound,
+        "proven_minimum": plan.proven_minimum,
         "routes": routes,
-        "certificate": {"jobs": plan.certificate_ids()},
+        "certificate": _certificate(plan),
         "verified": bool(plan.verified),
         "deadhead_minutes": _minutes(plan.deadhead_seconds),
         "least_deadhead": plan.least_deadhead,
@@ -61,6 +63,15 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         },
         **extra,
     }
+
+
+def _certificate(plan: Plan) -> dict:
+    """The proof of the lower bound (contract sections 4 and 5)."""
+    certificate: dict = {"jobs": plan.certificate_ids()}
+    if plan.certificate_weights:
+        jobs = plan.day.jobs
+        certificate["weights"] = {jobs[k].id: w for k, w in plan.certificate_weights}
+    return certificate
 
 
 def plan_to_json(plan: Plan, *, cost_model: dict | None = None,
