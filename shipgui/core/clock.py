@@ -14,7 +14,8 @@ from datetime import date, datetime, time, timedelta
 from decimal import Decimal, InvalidOperation
 
 __all__ = ["ClockValue", "parse_clock", "parse_minutes", "format_clock", "format_clock_or_none",
-           "format_minutes", "format_duration", "shown_minutes", "minutes_value", "resolve_clock"]
+           "format_day_clock", "day_mark", "format_minutes", "format_duration", "shown_minutes",
+           "minutes_value", "resolve_clock"]
 
 _HHMM = re.compile(r"^(\d{1,2}):(\d{2})(?::(\d{2}))?$")
 MAX_HOURS = 48  # a plan day plus the following night; more is almost surely a typo
@@ -95,6 +96,23 @@ def format_clock(seconds: int | float) -> str:
     h, rest = divmod(seconds, 3600)
     m, s = divmod(rest, 60)
     return f"{sign}{h:02d}:{m:02d}" + (f":{s:02d}" if s else "")
+
+
+def day_mark(seconds: int | float) -> str:
+    """'' on the plan day, '+1' the day after, '-1' the day before (and so on)."""
+    days = int(seconds) // 86_400
+    return "" if days == 0 else f"{days:+d}"
+
+
+def format_day_clock(seconds: int | float) -> str:
+    """A clock time as people read it: ``HH:MM`` of the day it falls on, with a
+    day mark when that is not the plan day ('00:55 +1' for 24:55, '23:30 -1'
+    for half an hour before the plan day).  Seconds are shown only if set.
+    For files, :func:`format_clock` keeps the input form (hours past 23)."""
+    seconds = int(seconds)
+    mark = day_mark(seconds)
+    text = format_clock(seconds % 86_400)
+    return f"{text} {mark}" if mark else text
 
 
 def format_clock_or_none(seconds: int | None) -> str | None:

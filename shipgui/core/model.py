@@ -8,7 +8,7 @@ from datetime import date
 import numpy as np
 
 __all__ = ["Job", "Site", "Settings", "DayInputs", "Day", "Plan", "DEFAULT_SPEED_KMH",
-           "DEFAULT_CIRCUITY", "TravelPairs"]
+           "DEFAULT_CIRCUITY", "TravelPairs", "SITE_DETAILS"]
 
 # Straight-line distance times a circuity factor gives road distance.  1.20 is
 # the mean road circuity measured for the USA in Ballou, Rahardja & Sakai,
@@ -37,9 +37,13 @@ class Job:
     row: int = 0  # row in the jobs file (header is row 1), for messages
 
 
+# Optional sites columns printed for the driver beside the site (text as given).
+SITE_DETAILS = ("contact", "phone", "opening_hours", "access_notes")
+
+
 @dataclass(frozen=True)
 class Site:
-    """A place jobs start or end at; coordinates are optional."""
+    """A place jobs start or end at; coordinates and the details are optional."""
 
     id: str
     name: str = ""
@@ -48,6 +52,10 @@ class Site:
     lon: float | None = None
     x_km: float | None = None
     y_km: float | None = None
+    contact: str = ""
+    phone: str = ""
+    opening_hours: str = ""
+    access_notes: str = ""
 
     @property
     def has_latlon(self) -> bool:

@@ -14,7 +14,7 @@ import numpy as np
 from scipy.sparse.csgraph import csgraph_from_dense, shortest_path
 
 __all__ = ["EARTH_RADIUS_KM", "haversine_km", "central_angle", "estimate_seconds",
-           "close_travel"]
+           "close_travel", "site_distance_km"]
 
 # Mean Earth radius (IUGG), 6371.0088 km; Moritz, "Geodetic Reference System
 # 1980", Bulletin Geodesique 54 (1980) gives the parameters it derives from.
@@ -37,6 +37,21 @@ def central_angle(lat1, lon1, lat2, lon2) -> np.ndarray:
 def haversine_km(lat1, lon1, lat2, lon2) -> np.ndarray:
     """Great-circle distance in km on a sphere of the mean Earth radius."""
     return EARTH_RADIUS_KM * central_angle(lat1, lon1, lat2, lon2)
+
+
+def site_distance_km(a, b, circuity: float) -> float | None:
+    """Estimated road distance between two sites (straight line times ``circuity``);
+    None unless both have coordinates of the same kind.  ``a`` and ``b`` are
+    :class:`~shipgui.core.model.Site` records or None."""
+    if a is None or b is None:
+        return None
+    if a.has_latlon and b.has_latlon:
+        km = float(haversine_km(a.lat, a.lon, b.lat, b.lon))
+    elif a.has_xy and b.has_xy:
+        km = math.hypot(a.x_km - b.x_km, a.y_km - b.y_km)
+    else:
+        return None
+    return km * circuity
 
 
 def estimate_seconds(km: np.ndarray, *, speed_kmh: float, circuity: float) -> np.ndarray:

@@ -17,7 +17,7 @@ from pathlib import Path
 
 from ..clock import format_clock, format_clock_or_none, parse_clock
 from ..errors import InputError, InputErrors, Problem
-from ..model import DayInputs, Job, Settings, Site
+from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
 from .files import write_bytes_atomic
 
 __all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "inputs_to_json", "inputs_from_json",
@@ -42,7 +42,9 @@ def inputs_to_json(inputs: DayInputs) -> dict:
                       "vehicle_class": j.vehicle_class, "customer": j.customer,
                       "reference": j.reference, "notes": j.notes} for j in inputs.jobs],
             "sites": [{"site": x.id, "name": x.name, "address": x.address, "lat": x.lat,
-                       "lon": x.lon, "x_km": x.x_km, "y_km": x.y_km} for x in inputs.sites],
+                       "lon": x.lon, "x_km": x.x_km, "y_km": x.y_km,
+                       **{k: getattr(x, k) for k in SITE_DETAILS if getattr(x, k)}}
+                      for x in inputs.sites],
             "travel": [{"from": a, "to": b, "seconds": sec}
                        for (a, b), (sec, _row) in inputs.travel.items()],
         },
@@ -142,8 +144,9 @@ def _read_sites(reader: _Reader, records: list[dict]) -> list[Site]:
         site_id = reader.text(r, "site", row, required=True)
         coords = {k: reader.number(r.get(k), row, k, low=-limit, high=limit)
                   for k, limit in (("lat", 90), ("lon", 180), ("x_km", 1e5), ("y_km", 1e5))}
+        details = {k: reader.text(r, k, row) for k in SITE_DETAILS}
         sites.append(Site(site_id, reader.text(r, "name", row), reader.text(r, "address", row),
-                          **coords))
+                          **coords, **details))
     return sites
 
 

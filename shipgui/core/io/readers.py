@@ -17,7 +17,7 @@ from pathlib import Path
 
 from ..clock import MAX_HOURS, ClockValue, parse_clock, parse_minutes, resolve_clock
 from ..errors import MAX_PROBLEMS, InputError, InputErrors, Problem, ProblemCollector
-from ..model import DayInputs, Job, Settings, Site
+from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
 from .tables import Table, read_table
 
 __all__ = ["read_jobs", "read_sites", "read_travel", "read_inputs", "MAX_PROBLEMS"]
@@ -232,8 +232,10 @@ def read_sites(path: str | Path, *, sheet: str | None = None,
                        f"{seen[rec['site']]})", table.path, number, "site")
             continue
         seen[rec["site"]] = number
+        details = {column: rec.get(column, "") for column in SITE_DETAILS}
         sites.append(Site(rec["site"], rec.get("name", ""), rec.get("address", ""),
-                          coords["lat"], coords["lon"], coords["x_km"], coords["y_km"]))
+                          coords["lat"], coords["lon"], coords["x_km"], coords["y_km"],
+                          **details))
     issues.raise_if_any()
     return sites
 
