@@ -9,20 +9,24 @@ unless the whole solve succeeded.
 from __future__ import annotations
 
 import argparse
+import math
 import os
 import sys
 import time
 from dataclasses import replace
+from datetime import date
 from pathlib import Path
 
 from shipgui import __version__
 from shipgui.core import InputError, Settings, format_clock, format_minutes, solve_day
 from shipgui.core.caution import CAUTION
-from shipgui.core.clock import format_duration, parse_clock, parse_minutes
+from shipgui.core.clock import format_day_clock, format_duration, parse_clock, parse_minutes
 from shipgui.core.day import build_inputs
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
 from shipgui.core.export.plan_json import plan_to_json
-from shipgui.core.io.files import write_bytes_atomic
+from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN, tradeoff_rows
+from shipgui.core.fleet.schedule import class_counts
+from shipgui.core.io.files import name_refused, write_files_atomic, write_problem
 from shipgui.core.io.plan_file import PLAN_SUFFIX, read_plan_file
 from shipgui.core.io.readers import read_inputs
 from shipgui.core.io.tables import parse_delimiter
@@ -38,6 +42,52 @@ class _Parser(argparse.ArgumentParser):
         raise UsageError(f"{self.prog}: {message}")
 
 
+# Checked ranges of the number options: wide enough for any real day, narrow
+# enough that no option can make the arithmetic meaningless (common practice).
+MAX_TURNAROUND_MIN = 24 * 60
+SPEED_KMH = (1.0, 300.0)
+CIRCUITY = (1.0, 5.0)
+MAX_COST = 1e9
+MAX_TRADEOFF = 50
+# The CLI prints this many certificate ids; the rest go to --json / --pdf.
+CERTIFICATE_IDS_SHOWN = 30
+
+
+def _number(option: str, low: float, high: float):
+    """An argparse type: a finite number in [low, high], else exit 2 naming the range."""
+    def parse(text: str) -> float:
+        try:
+            value = float(text)
+        except ValueError:
+            value = math.nan
+        if not (math.isfinite(value) and low <= value <= high):
+            raise argparse.ArgumentTypeError(f"'{text}' is not a number from {low:g} to "
+                                             f"{high:g}")
+        return value
+    parse.__name__ = option  # argparse names the type in its message
+    return parse
+
+
+def _count(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        value = -1
+    if not 0 <= value <= MAX_TRADEOFF:
+        raise argparse.ArgumentTypeError(f"'{text}' is not a whole number from 0 to "
+                                         f"{MAX_TRADEOFF}")
+    return value
+
+
+def _plan_date(text: str) -> date:
+    try:
+        if len(text) != 10:
+            raise ValueError
+        return date.fromisoformat(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"'{text}' is not a date YYYY-MM-DD") from None
+
+
 def _solve_parser() -> argparse.ArgumentParser:
     p = _Parser(prog="shipgui solve",
                 description="Minimum vehicles, routes and proof for a day of jobs.")
@@ -50,38 +100,44 @@ def _solve_parser() -> argparse.ArgumentParser:
     p.add_argument("--travel-sheet", metavar="NAME", help="sheet of the travel workbook")
     p.add_argument("--delimiter", metavar="D",
                    help="CSV delimiter: comma, semicolon or tab (default: read from the header)")
+    p.add_argument("--turnaround", metavar="MIN",
+                   help="minutes between one job's end and the next job's drive "
+                   f"(default 0, at most {MAX_TURNAROUND_MIN})")
+    p.add_argument("--depot", metavar="SITE", help="site the vehicles start from and return to")
+    p.add_argument("--day-start", metavar="HH:MM", help="earliest departure from the depot")
+    p.add_argument("--day-end", metavar="HH:MM", help="latest return to the depot")
+    p.add_argument("--speed", metavar="KMH", type=_number("--speed", *SPEED_KMH),
+                   help=f"average speed for estimated travel (default {DEFAULT_SPEED_KMH:g}; "
+                   f"{SPEED_KMH[0]:g} to {SPEED_KMH[1]:g})")
+    p.add_argument("--circuity", metavar="F", type=_number("--circuity", *CIRCUITY),
+                   help=f"road distance / straight distance (default {DEFAULT_CIRCUITY:g}; "
+                   f"{CIRCUITY[0]:g} to {CIRCUITY[1]:g})")
     _add_common(p)
     return p
 
 
 def _add_common(p: argparse.ArgumentParser) -> None:
-    p.add_argument("--turnaround", metavar="MIN",
-                   help="minutes between one job's end and the next job's drive (default 0)")
-    p.add_argument("--depot", metavar="SITE", help="site the vehicles start from and return to")
-    p.add_argument("--day-start", metavar="HH:MM", help="earliest departure from the depot")
-    p.add_argument("--day-end", metavar="HH:MM", help="latest return to the depot")
-    p.add_argument("--speed", metavar="KMH", type=float,
-                   help=f"average speed for estimated travel (default {DEFAULT_SPEED_KMH:g})")
-    p.add_argument("--circuity", type=float,
-                   help=f"road distance / straight distance (default {DEFAULT_CIRCUITY:g})")
-    _add_deadhead(p)
-    p.add_argument("--vehicle-cost", metavar="COST", type=float,
-                   help="cost of one vehicle-day, to find the cheapest fleet size")
-    p.add_argument("--empty-hour-cost", metavar="COST", type=float,
-                   help="cost of one hour of empty driving, to find the cheapest fleet size")
-    p.add_argument("--json", metavar="OUT.json", help="write the plan as JSON")
-    p.add_argument("--pdf", metavar="OUT.pdf", help="write driver sheets and the certificate")
-    p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx",
-                   help="write one row per job with vehicle and sequence (for spreadsheets)")
-    p.add_argument("--verbose", action="store_true", help="print timings per stage")
-
-
-def _add_deadhead(p: argparse.ArgumentParser) -> None:
+    """Options of both `solve` and `demo`: the plan date, the plan's extras, outputs."""
+    p.add_argument("--date", metavar="YYYY-MM-DD", type=_plan_date,
+                   help="the plan's date, printed on every page (default: the date of the "
+                   "jobs file's date-times, if it has any)")
     p.add_argument("--least-deadhead", action=argparse.BooleanOptionalAction, default=True,
                    help="among minimum-fleet plans, pick one with the least empty driving "
                    "(default; --no-least-deadhead keeps any minimum-fleet routes)")
-    p.add_argument("--tradeoff", metavar="N", type=int, default=5,
-                   help="also price up to N extra vehicles (default 5; 0 for none)")
+    p.add_argument("--tradeoff", metavar="N", type=_count, default=TRADEOFF_SHOWN,
+                   help=f"also price up to N extra vehicles (default {TRADEOFF_SHOWN}; "
+                   f"0 for none; at most {MAX_TRADEOFF})")
+    p.add_argument("--vehicle-cost", metavar="COST", type=_number("--vehicle-cost", 0, MAX_COST),
+                   help="cost of one vehicle-day, to find the cheapest fleet size")
+    p.add_argument("--empty-hour-cost", metavar="COST",
+                   type=_number("--empty-hour-cost", 0, MAX_COST),
+                   help="cost of one hour of empty driving, to find the cheapest fleet size")
+    p.add_argument("--json", metavar="OUT.json", help="write the plan as JSON")
+    p.add_argument("--pdf", metavar="OUT.pdf",
+                   help="write the summary, driver sheets and the proof as a PDF")
+    p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx",
+                   help="write one row per job with vehicle and sequence (for spreadsheets)")
+    p.add_argument("--verbose", action="store_true", help="print timings per stage")
 
 
 def _settings(args: argparse.Namespace, base: Settings) -> Settings:
@@ -105,6 +161,8 @@ def _settings(args: argparse.Namespace, base: Settings) -> Settings:
             turnaround = parse_minutes(args.turnaround)
         except ValueError as exc:
             raise UsageError(f"--turnaround: {exc}") from None
+        if turnaround > MAX_TURNAROUND_MIN * 60:
+            raise UsageError(f"--turnaround: at most {MAX_TURNAROUND_MIN} minutes (a day)")
     depot = args.depot if args.depot is not None else base.depot
     day_start = clock("--day-start", args.day_start, base.day_start)
     day_end = clock("--day-end", args.day_end, base.day_end)
@@ -114,31 +172,67 @@ def _settings(args: argparse.Namespace, base: Settings) -> Settings:
         raise UsageError("--day-end must be after --day-start (use 25:00 for 01:00 next day)")
     speed = base.speed_kmh if args.speed is None else args.speed
     circuity = base.circuity if args.circuity is None else args.circuity
-    if not speed > 0:
+    if not (math.isfinite(speed) and speed > 0):
         raise UsageError("--speed must be more than 0 km/h")
-    if not circuity >= 1:
+    if not (math.isfinite(circuity) and circuity >= 1):
         raise UsageError("--circuity must be at least 1")
-    return Settings(turnaround=turnaround, depot=depot, day_start=day_start,
-                    day_end=day_end, speed_kmh=speed, circuity=circuity)
+    return replace(base, turnaround=turnaround, depot=depot, day_start=day_start,
+                   day_end=day_end, speed_kmh=speed, circuity=circuity)
+
+
+OUTPUT_OPTIONS = ("json", "pdf", "routes")
 
 
 def _check_outputs(args: argparse.Namespace, inputs: list[str | None]) -> None:
-    """Refuse outputs that would overwrite an input or cannot be written."""
-    sources = {Path(p).resolve() for p in inputs if p}
+    """Refuse, before any work, outputs that would overwrite an input or each other,
+    or that cannot be written (exit 2 with the reason)."""
+    sources = {os.path.realpath(p) for p in inputs if p}
     routes = getattr(args, "routes", None)
     if routes and Path(routes).suffix.lower() not in (".csv", ".xlsx"):
         raise UsageError(f"--routes {routes}: the name must end in .csv or .xlsx")
-    for option in ("json", "pdf", "routes"):
+    seen: dict[str, str] = {}
+    for option in OUTPUT_OPTIONS:
         out = getattr(args, option, None)
-        if not out:
+        if out is None:
             continue
-        path = Path(out).resolve()
+        if not out.strip():
+            raise UsageError(f"--{option}: give a file name")
+        path = os.path.realpath(out)  # links resolved: two names for one file clash
         if path in sources:
             raise UsageError(f"--{option} {out}: that is an input file; choose another name")
-        if not path.parent.is_dir():
-            raise UsageError(f"--{option} {out}: the folder {path.parent} does not exist")
+        if path in seen:
+            raise UsageError(f"--{option} {out}: the same file as --{seen[path]}; "
+                             "give each output its own name")
+        seen[path] = option
+        problem = _output_problem(Path(path))
+        if problem:
+            raise UsageError(f"--{option} {out}: {problem}")
+
+
+def _output_problem(path: Path) -> str:
+    """Why ``path`` (links resolved) cannot be written, or ''."""
+    folder = path.parent
+    try:
+        limit = os.pathconf(folder, "PC_NAME_MAX")
+    except (AttributeError, OSError, ValueError):
+        limit = 255
+    if len(os.fsencode(path.name)) > limit:
+        return (f"the name is too long for this file system ({len(os.fsencode(path.name))} "
+                f"bytes; at most {limit})")
+    try:
+        if not folder.is_dir():
+            return f"the folder {folder} does not exist"
         if path.is_dir():
-            raise UsageError(f"--{option} {out}: that is a folder")
+            return "that is a folder"
+        if path.exists() and not path.is_file():
+            return "that is not a regular file; choose a file name"
+    except OSError as exc:
+        return write_problem(exc)
+    if not os.access(folder, os.W_OK):
+        return f"permission denied: cannot create files in {folder}"
+    if path.exists() and not os.access(path, os.W_OK):
+        return "the file is read-only"
+    return ""
 
 
 def _cost_model(plan: Plan, args: argparse.Namespace) -> dict | None:
@@ -175,7 +269,9 @@ def _render_outputs(plan: Plan, args: argparse.Namespace) -> dict[str, bytes]:
     return outputs
 
 
-def _summary(plan: Plan, label: str) -> str:
+def _summary(plan: Plan, label: str, args: argparse.Namespace | None = None) -> str:
+    """What the terminal shows: the answer, why not fewer, empty driving, warnings,
+    the first vehicles; ``args`` names where the long lists went."""
     day = plan.day
     lines = [f"Day: {label} - {day.n} jobs, {len(day.site_ids)} sites"
              + (f", plan date {day.plan_date.isoformat()}" if day.plan_date else "")
@@ -185,27 +281,53 @@ def _summary(plan: Plan, label: str) -> str:
         lines.extend(f"  {f}" for f in plan.verification_failures)
         return "\n".join(lines)
     lines.append(f"Vehicles needed: {plan.vehicles} (minimum; independently verified)")
-    lines.append(f"Why not fewer: these {len(plan.certificate)} jobs pairwise cannot share "
-                 "a vehicle, so each needs its own:")
-    ids = plan.certificate_ids()
-    for k in range(0, len(ids), 10):
-        lines.append("  " + " ".join(ids[k:k + 10]))
-    least = f" (the least possible with {plan.vehicles} vehicles)" if plan.least_deadhead else ""
-    lines.append(f"Empty driving: {format_duration(plan.deadhead_seconds)} in all{least}")
-    for (vehicles, dead), (_, exact) in zip(plan.tradeoff[1:], plan.tradeoff_exact[1:]):
-        note = "" if exact == dead else f" (all {vehicles} out: {format_duration(exact)})"
-        lines.append(f"  with at most {vehicles} vehicles: {format_duration(dead)} "
-                     f"empty driving{note}")
+    counts = class_counts(plan)
+    if len(counts) > 1:
+        lines.append("  by class: " + ", ".join(f"{name or '(no class)'} {count}"
+                                                for name, count in counts))
+    lines += _certificate_lines(plan, args)
+    lines += _deadhead_lines(plan)
     for w in day.warnings:
         lines.append(f"Warning: {w}")
     for number, route in enumerate(plan.routes[:5], start=1):
         jobs = [day.jobs[k] for k in route]
-        lines.append(f"  vehicle {number}: {format_clock(jobs[0].start)}-"
-                     f"{format_clock(jobs[-1].end)}  " + " ".join(j.id for j in jobs))
+        lines.append(f"  vehicle {number}: {format_day_clock(jobs[0].start)} to "
+                     f"{format_day_clock(jobs[-1].end)}  " + " ".join(j.id for j in jobs))
     if plan.vehicles > 5:
         lines.append(f"  ... and {plan.vehicles - 5} more vehicles (use --json or --pdf)")
     lines.append(CAUTION)
     return "\n".join(lines)
+
+
+def _certificate_lines(plan: Plan, args: argparse.Namespace | None) -> list[str]:
+    """The proof's jobs, ten to a line; a long list is cut and says where it is whole."""
+    ids = plan.certificate_ids()
+    jobs = "job" if len(ids) == 1 else "jobs"
+    lines = [f"Why not fewer: these {len(ids)} {jobs} pairwise cannot share a vehicle, "
+             "so each needs its own:"]
+    shown = ids if len(ids) <= CERTIFICATE_IDS_SHOWN else ids[:CERTIFICATE_IDS_SHOWN]
+    for k in range(0, len(shown), 10):
+        lines.append("  " + " ".join(shown[k:k + 10]))
+    if len(shown) < len(ids):
+        where = [f"{args.json} (certificate.jobs)"] if args is not None and args.json else []
+        if args is not None and args.pdf:
+            where.append(f"{args.pdf} (the proof pages)")
+        lines.append(f"  ... and {len(ids) - len(shown)} more; the whole list is in "
+                     + (" and ".join(where) if where else
+                        "the JSON (--json FILE, key certificate.jobs) or the PDF (--pdf FILE)"))
+    return lines
+
+
+def _deadhead_lines(plan: Plan) -> list[str]:
+    """Empty driving, and what more vehicles would save (each figure printed once)."""
+    least = f" (the least possible with {plan.vehicles} vehicles)" if plan.least_deadhead else ""
+    lines = [f"Empty driving: {format_duration(plan.deadhead_seconds)} in all{least}"]
+    for row in tradeoff_rows(plan, MAX_TRADEOFF)[1:]:
+        note = f" (all {row.vehicles} out: {format_duration(row.exactly)})" \
+            if row.exactly_differs else ""
+        lines.append(f"  with at most {row.vehicles} vehicles: "
+                     f"{format_duration(row.at_most)} empty driving{note}")
+    return lines
 
 
 def _input_options(args: argparse.Namespace) -> dict:
@@ -226,6 +348,10 @@ def _input_options(args: argparse.Namespace) -> dict:
 def _read(args: argparse.Namespace, files: dict[str, str | None],
           base: Settings) -> DayInputs:
     """The day's inputs: a plan file with its own settings, or the day files."""
+    for kind, path in files.items():
+        if path is not None and not path.strip():
+            raise UsageError(f"--{kind}: give a file name" if kind != "jobs"
+                             else "give the jobs file's name")
     if Path(files["jobs"] or "").suffix.lower() == PLAN_SUFFIX:
         given = [f"--{name.replace('_', '-')}" for name in
                  ("sites", "travel", "sheet", "sites_sheet", "travel_sheet", "delimiter")
@@ -234,9 +360,22 @@ def _read(args: argparse.Namespace, files: dict[str, str | None],
             raise UsageError(f"{files['jobs']} is a plan file: it carries its own sites and "
                              f"travel times, so {given[0]} does not apply")
         inputs = read_plan_file(files["jobs"])
-        return replace(inputs, settings=_settings(args, inputs.settings))
-    return read_inputs(files["jobs"], files.get("sites"), files.get("travel"),
-                       settings=_settings(args, base), **_input_options(args))
+        # A plan file's times are relative to its day: --date may move it to another.
+        return replace(inputs, settings=_settings(args, inputs.settings),
+                       plan_date=args.date or inputs.plan_date)
+    inputs = read_inputs(files["jobs"], files.get("sites"), files.get("travel"),
+                         settings=_settings(args, base), **_input_options(args))
+    return replace(inputs, plan_date=_checked_date(args.date, inputs))
+
+
+def _checked_date(given: date | None, inputs: DayInputs) -> date | None:
+    """The plan date: ``--date``, else the date of the jobs file's date-times.  When
+    both are there they must agree: the file's times count from its own date."""
+    found = inputs.plan_date
+    if given is not None and found is not None and given != found:
+        raise UsageError(f"--date {given.isoformat()}: the jobs file's date-times start on "
+                         f"{found.isoformat()}; give that date or leave --date out")
+    return given or found
 
 
 def _run_solve(args: argparse.Namespace, files: dict[str, str | None], base: Settings,
@@ -245,28 +384,51 @@ def _run_solve(args: argparse.Namespace, files: dict[str, str | None], base: Set
     t0 = time.perf_counter()
     day = build_inputs(_read(args, files, base))
     t1 = time.perf_counter()
-    plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=max(0, args.tradeoff))
+    plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=args.tradeoff)
     if not plan.verified:
         print(_summary(plan, label), file=sys.stderr)
         return 1
     t2 = time.perf_counter()
-    outputs = _render_outputs(plan, args)
-    for path, data in outputs.items():
-        write_bytes_atomic(path, data)
+    outputs = _render_outputs(plan, args)  # every output in memory first ...
+    _write_outputs(outputs)  # ... then all of them, or none
     t3 = time.perf_counter()
-    print(_summary(plan, label))
+    try:
+        _report(plan, label, args, outputs, {"reading and checking input": t1 - t0,
+                                             **plan.timings, "writing output": t3 - t2})
+    except BrokenPipeError:  # the reader stopped listening; the work is done
+        _quiet_stdout()
+    return 0
+
+
+def _write_outputs(outputs: dict[str, bytes]) -> None:
+    """Write all outputs or none; a name or place the system refuses is exit 2."""
+    try:
+        write_files_atomic(outputs)
+    except OSError as exc:
+        message = (f"shipgui: cannot write {exc.filename}: {write_problem(exc)}; "
+                   "nothing was written")
+        if name_refused(exc):
+            raise UsageError(message) from None
+        raise _WriteFailed(message) from None
+
+
+class _WriteFailed(Exception):
+    """Writing the outputs failed for a reason not in the arguments (exit 1)."""
+
+
+def _report(plan: Plan, label: str, args: argparse.Namespace, outputs: dict[str, bytes],
+            stages: dict[str, float]) -> None:
+    print(_summary(plan, label, args))
     model = _cost_model(plan, args)
     if model:
         print(f"Cheapest fleet for the given costs: {model['cheapest_vehicles']} vehicles")
     for path in outputs:
         print(f"Wrote {path}")
     if args.verbose:
-        stages = {"reading and checking input": t1 - t0, **plan.timings,
-                  "writing output": t3 - t2}
         print(f"Timings (kernel {plan.kernel}):")
         for name, seconds in stages.items():
             print(f"  {name:<28} {seconds * 1000:9.1f} ms")
-    return 0
+    sys.stdout.flush()
 
 
 def cmd_solve(argv: list[str]) -> int:
@@ -276,14 +438,9 @@ def cmd_solve(argv: list[str]) -> int:
 
 
 def cmd_demo(argv: list[str]) -> int:
-    p = _Parser(prog="shipgui demo", description="Solve the built-in invented demo day.")
-    p.add_argument("--json", metavar="OUT.json")
-    p.add_argument("--pdf", metavar="OUT.pdf")
-    p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx")
-    p.add_argument("--verbose", action="store_true")
-    _add_deadhead(p)
-    p.add_argument("--vehicle-cost", metavar="COST", type=float)
-    p.add_argument("--empty-hour-cost", metavar="COST", type=float)
+    p = _Parser(prog="shipgui demo", description="Solve the built-in invented demo day "
+                "(depot, day and turnaround as printed on the first line).")
+    _add_common(p)
     args = p.parse_args(argv)
     files = {k: str(v) for k, v in demo_files().items()}
     print("Demo: Brindlemoor Building Supply, an invented builders' merchant; depot YARD, "
@@ -333,8 +490,14 @@ def main(argv: list[str] | None = None) -> int:
     except InputError as exc:
         print(f"shipgui: input error: {exc}", file=sys.stderr)
         return 2
+    except _WriteFailed as exc:
+        print(str(exc), file=sys.stderr)
+        return 1
     except KeyboardInterrupt:
         print("shipgui: interrupted", file=sys.stderr)
+        return 1
+    except BrokenPipeError:  # e.g. `shipgui demo | head -1` before the work was done
+        _quiet_stdout()
         return 1
     except Exception as exc:  # noqa: BLE001 - the contract: no traceback, exit 1
         if os.environ.get("SHIPGUI_DEBUG"):
@@ -342,6 +505,17 @@ def main(argv: list[str] | None = None) -> int:
         print(f"shipgui: internal error ({type(exc).__name__}: {exc}); nothing was written. "
               "Set SHIPGUI_DEBUG=1 for details.", file=sys.stderr)
         return 1
+
+
+def _quiet_stdout() -> None:
+    """Send what is left for stdout nowhere: its reader has gone (the usual recipe,
+    so that Python's final flush does not complain either)."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError):
+        pass
 
 
 if __name__ == "__main__":

@@ -4,11 +4,12 @@ from __future__ import annotations
 
 import csv
 import io
+import zipfile
 
 import openpyxl
 import pytest
 
-from shipgui.core import Job, Settings, Site, build_day, solve_day
+from shipgui.core import Job, Settings, Site, build_day, format_clock, solve_day
 from shipgui.core.export.routes_table import (
     COLUMNS,
     neutralise,
@@ -64,7 +65,9 @@ def test_csv_reads_back_neutralised(tmp_path):
                for r in records for c in ("customer", "notes", "reference"))
 
 
-def test_xlsx_reads_back_as_text_not_formulas(tmp_path):
+def test_xlsx_keeps_the_text_as_typed_in_string_cells(tmp_path):
+    # String cells never run as formulas, so the CSV's protective quote would only
+    # show inside the cell (issue: "'=1+1" in the customer column).
     plan = plan_with_texts()
     path = tmp_path / "routes.xlsx"
     write_routes(plan, path)
@@ -73,11 +76,29 @@ def test_xlsx_reads_back_as_text_not_formulas(tmp_path):
         rows = list(sheet.iter_rows(values_only=True))
         assert rows[0] == COLUMNS
         customers = {r[COLUMNS.index("customer")] for r in rows[1:]}
-        # XML turns a carriage return into a line feed; the quote in front is what counts.
-        assert customers == {"'" + t.replace("\r", "\n") for t in ATTACKS}
+        # XML turns a carriage return into a line feed.
+        assert customers == {t.replace("\r", "\n") for t in ATTACKS}
         kinds = {c.data_type for row in sheet.iter_rows(min_row=2) for c in row}
         assert "f" not in kinds
         assert rows[1][0] == 1 and rows[1][1] == 1  # vehicle and sequence are numbers
+    with zipfile.ZipFile(path) as book:
+        xml = book.read("xl/worksheets/sheet1.xml").decode("utf-8")
+    assert "<f>" not in xml and "=1+1" in xml
+
+
+def test_rows_carry_the_vehicle_day():
+    plan = plan_with_texts()
+    rows = route_rows(plan)
+    first = rows[0]
+    jobs = [plan.day.jobs[k] for k in plan.routes[0]]
+    # Depot A: the first job starts at A, so the vehicle leaves at its start; the
+    # last job ends at B, 6 km away: 6 x 1.2 / 50 km/h = 8.64 min back.
+    assert first.leave_depot == format_clock(jobs[0].start)
+    back = jobs[-1].end + 519  # 8.64 min, rounded up to whole seconds
+    assert first.back_at_depot == format_clock(back)
+    assert first.working_day_minutes == round((back - jobs[0].start) / 60, 2)
+    assert first.vehicle_empty_minutes == round(plan.route_deadhead_seconds[0] / 60, 2)
+    assert {r.vehicle_class for r in rows} == {""}
 
 
 def test_other_suffixes_are_refused(tmp_path):

@@ -6,6 +6,7 @@ import json
 
 from ..clock import format_clock, format_clock_or_none
 from ..clock import minutes_value as _minutes
+from ..fleet.schedule import VehicleDay, class_counts, vehicle_days
 from ..model import Plan
 
 __all__ = ["plan_to_dict", "plan_to_json"]
@@ -20,16 +21,7 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
     """
     day = plan.day
     names = driver_names or {}
-    routes = []
-    for number, (route, ids) in enumerate(zip(plan.routes, plan.route_ids()), start=1):
-        entry = {"vehicle": number, "jobs": ids,
-                 "first_start": format_clock(day.jobs[route[0]].start),
-                 "last_end": format_clock(day.jobs[route[-1]].end)}
-        if plan.route_deadhead_seconds:
-            entry["deadhead_minutes"] = _minutes(plan.route_deadhead_seconds[number - 1])
-        if names.get(number):
-            entry["driver"] = names[number]
-        routes.append(entry)
+    routes = [_route(plan, v, names.get(v.vehicle)) for v in vehicle_days(plan)]
     extra: dict = {}
     if plan.tradeoff:
         # deadhead_minutes: least with at most k vehicles (never rises with k);
@@ -41,6 +33,8 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         extra["cost_model"] = cost_model
     return {
         "vehicles": plan.vehicles,
+        "vehicles_by_class": [{"vehicle_class": name, "vehicles": count}
+                              for name, count in class_counts(plan)],
         "lower_bound": plan.lower_bound,
         "proven_minimum": plan.proven_minimum,
         "routes": routes,
@@ -65,6 +59,22 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
     }
 
 
+def _route(plan: Plan, v: VehicleDay, driver: str | None) -> dict:
+    """One route: its jobs and its vehicle's day.  ``leave_depot`` and
+    ``back_at_depot`` are null without a depot; the working day runs depot to
+    depot with one, first start to last end without (contract section 5)."""
+    entry = {"vehicle": v.vehicle, "jobs": [plan.day.jobs[k].id for k in v.jobs],
+             "vehicle_class": v.vehicle_class,
+             "first_start": format_clock(v.first_start), "last_end": format_clock(v.last_end),
+             "leave_depot": format_clock_or_none(v.leave),
+             "back_at_depot": format_clock_or_none(v.back),
+             "working_day_minutes": _minutes(v.working_day),
+             "deadhead_minutes": _minutes(v.deadhead)}
+    if driver:
+        entry["driver"] = driver
+    return entry
+
+
 def _certificate(plan: Plan) -> dict:
     """The proof of the lower bound (contract sections 4 and 5)."""
     certificate: dict = {"jobs": plan.certificate_ids()}
@@ -76,5 +86,7 @@ def _certificate(plan: Plan) -> dict:
 
 def plan_to_json(plan: Plan, *, cost_model: dict | None = None,
                  driver_names: dict[int, str] | None = None) -> str:
+    """The JSON text; raises ``ValueError`` rather than write NaN or Infinity,
+    which are not JSON (RFC 8259, section 6)."""
     return json.dumps(plan_to_dict(plan, cost_model=cost_model, driver_names=driver_names),
-                      indent=2, ensure_ascii=False) + "\n"
+                      indent=2, ensure_ascii=False, allow_nan=False) + "\n"

@@ -1,10 +1,15 @@
 """Routes as a spreadsheet: one row per job with its vehicle and place in the route.
 
 CSV (UTF-8 with a BOM, so spreadsheet programs pick the right encoding) or
-XLSX.  Every text cell that came from a user is neutralised against formula
-injection: a cell starting with ``= + - @``, a tab or a carriage return would
-be run as a formula when the file is opened, so it gets a leading single quote
-(OWASP, "CSV Injection", https://owasp.org/www-community/attacks/CSV_Injection).
+XLSX.  In CSV every text cell that came from a user is neutralised against
+formula injection: a cell starting with ``= + - @``, a tab or a carriage return
+would be run as a formula when the file is opened, so it gets a leading single
+quote (OWASP, "CSV Injection", https://owasp.org/www-community/attacks/CSV_Injection).
+XLSX cells carry their type, so text is written as a string cell, exactly as
+typed: a string cell is never run as a formula (ECMA-376 Part 1, 18.3.1.4,
+cell type ``inlineStr``).
+Each row also carries its vehicle's day: class, leaving and being back at the
+depot, working day and empty driving (the same on every row of a vehicle).
 Files are written atomically (:func:`shipgui.core.io.files.write_bytes_atomic`).
 """
 
@@ -15,9 +20,9 @@ import io
 from dataclasses import astuple, dataclass, fields
 from pathlib import Path
 
-from ..clock import format_clock
+from ..clock import format_clock, format_clock_or_none
 from ..clock import minutes_value as _minutes
-from ..fleet.deadhead import route_legs
+from ..fleet.schedule import vehicle_days
 from ..io.files import write_bytes_atomic
 from ..model import Plan
 
@@ -43,11 +48,16 @@ class RouteRow:
     notes: str
     empty_minutes_before: float
     driver: str = ""
+    vehicle_class: str = ""
+    leave_depot: str = ""  # the vehicle's, empty without a depot
+    back_at_depot: str = ""
+    working_day_minutes: float = 0
+    vehicle_empty_minutes: float = 0
 
 
 COLUMNS = tuple(f.name for f in fields(RouteRow))
 _TEXT = {"job", "start", "end", "origin", "destination", "customer", "reference", "notes",
-         "driver"}
+         "driver", "vehicle_class", "leave_depot", "back_at_depot"}
 
 
 def neutralise(text: str) -> str:
@@ -62,14 +72,16 @@ def route_rows(plan: Plan, driver_names: dict[int, str] | None = None) -> list[R
     day = plan.day
     names = driver_names or {}
     rows = []
-    for vehicle, route in enumerate(plan.routes, start=1):
-        legs = route_legs(day, route)
-        for sequence, (k, empty) in enumerate(zip(route, legs.before), start=1):
+    for v in vehicle_days(plan):
+        vehicle = (v.vehicle_class, format_clock_or_none(v.leave) or "",
+                   format_clock_or_none(v.back) or "", _minutes(v.working_day),
+                   _minutes(v.deadhead))
+        for sequence, (k, empty) in enumerate(zip(v.jobs, v.before), start=1):
             job = day.jobs[k]
-            rows.append(RouteRow(vehicle, sequence, job.id, format_clock(job.start),
+            rows.append(RouteRow(v.vehicle, sequence, job.id, format_clock(job.start),
                                  format_clock(job.end), job.origin, job.destination,
                                  job.customer, job.reference, job.notes, _minutes(empty),
-                                 names.get(vehicle, "")))
+                                 names.get(v.vehicle, ""), *vehicle))
     return rows
 
 
@@ -87,19 +99,22 @@ def routes_csv_bytes(rows: list[RouteRow]) -> bytes:
 
 def routes_xlsx_bytes(rows: list[RouteRow]) -> bytes:
     import openpyxl  # only for spreadsheets; the rest of the core does without it
+    from openpyxl.cell import WriteOnlyCell
     from openpyxl.cell.cell import ILLEGAL_CHARACTERS_RE
 
     book = openpyxl.Workbook(write_only=True)
     sheet = book.create_sheet("Routes")
     sheet.append(list(COLUMNS))
+
+    def text_cell(value: str) -> WriteOnlyCell:
+        # Characters XML cannot hold become U+FFFD; openpyxl would refuse the file.
+        cell = WriteOnlyCell(sheet, ILLEGAL_CHARACTERS_RE.sub("\ufffd", value))
+        cell.data_type = "s"  # openpyxl would take "=..." for a formula
+        return cell
+
     for row in rows:
-        cells = []
-        for name, value in zip(COLUMNS, _cells(row)):
-            if name in _TEXT:
-                # Characters XML cannot hold become U+FFFD; openpyxl would refuse the file.
-                value = ILLEGAL_CHARACTERS_RE.sub("\ufffd", value)
-            cells.append(value)
-        sheet.append(cells)
+        sheet.append([text_cell(value) if name in _TEXT else value
+                      for name, value in zip(COLUMNS, astuple(row))])
     out = io.BytesIO()
     book.save(out)
     return out.getvalue()
