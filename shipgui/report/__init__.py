@@ -6,10 +6,10 @@ caller can also print a single route sheet or just the proof.
 """
 
 from .certificate import build_certificate
-from .document import build_pdf_bytes, write_plan_pdf
+from .document import PrintLayoutError, build_pdf_bytes, write_plan_pdf
 from .pages import CAUTION
 from .route_sheet import build_route_sheet
 from .summary import build_summary
 
-__all__ = ["CAUTION", "build_certificate", "build_pdf_bytes", "build_route_sheet",
-           "build_summary", "write_plan_pdf"]
+__all__ = ["CAUTION", "PrintLayoutError", "build_certificate", "build_pdf_bytes",
+           "build_route_sheet", "build_summary", "write_plan_pdf"]

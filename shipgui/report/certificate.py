@@ -1,14 +1,17 @@
 """The proof pages: a set of jobs no two of which can share a vehicle.
 
 If no vehicle can do two of N jobs, any plan needs at least N vehicles; a plan
-with N vehicles is then the minimum.  The pages list the N jobs, show for the
-pairs why neither order works, and state the theorem that such a set always
-exists for the minimum fleet.
+with N vehicles is then the minimum.  The pages first say it at a glance (the
+busiest moment on a time axis, the count per vehicle class, the pairs that
+come nearest to sharing a vehicle), then list the N jobs, show for the pairs
+why they cannot share, and state the theorem that such a set always exists for
+the minimum fleet.  The reasons are worded by
+:mod:`shipgui.core.fleet.explain`, as in the app.
 
 How much is printed depends on N so that the pages stay bounded:
 
-* N <= ``SENTENCES_UP_TO``: every pair is explained in a sentence, plus the matrix;
-* N <= ``MATRIX_UP_TO``: the full N x N matrix of minutes late;
+* N <= ``SENTENCES_UP_TO``: every pair is explained in a sentence;
+* N <= ``MATRIX_UP_TO``: the table of every pair (minutes short, overlap, class);
 * larger N: for each job, its closest miss (the other job it comes nearest to
   sharing a vehicle with) in a sentence, N rows; all N(N-1)/2 pairs were checked
   by the independent verification, which the page says.
@@ -16,14 +19,23 @@ How much is printed depends on N so that the pages stay bounded:
 
 from __future__ import annotations
 
-import math
-
 from reportlab.platypus import Flowable, KeepTogether, LongTable, Paragraph, Spacer, TableStyle
 
-from shipgui.core import follow_slack
+from shipgui.core.clock import format_day_clock, format_duration
+from shipgui.core.fleet.explain import (
+    PairReason,
+    closest_partners,
+    explain_pair,
+    nearest_misses,
+    pair_reason,
+    peak_moment,
+    reason_label,
+)
+from shipgui.core.fleet.schedule import class_counts
 from shipgui.core.model import Plan
 
 from .pages import SectionStart
+from .proof_picture import MAX_BARS, peak_picture
 from .styles import (
     FAINT_GREY,
     FONT,
@@ -34,12 +46,13 @@ from .styles import (
     heading,
     styles,
 )
-from .text import duration_text, esc, late_text, plan_date_text, slot_text
+from .text import LIMITS, day_mark_note, esc, plan_date_text, slot_text
 
-__all__ = ["build_certificate", "why_neither_order", "SENTENCES_UP_TO", "MATRIX_UP_TO"]
+__all__ = ["build_certificate", "SENTENCES_UP_TO", "MATRIX_UP_TO", "NEAREST_MISSES_SHOWN"]
 
 SENTENCES_UP_TO = 12
 MATRIX_UP_TO = 30
+NEAREST_MISSES_SHOWN = 5
 REFERENCE = ("R. P. Dilworth, \u201cA decomposition theorem for partially ordered sets\u201d, "
              "Annals of Mathematics 51(1), 1950, pp. 161\u2013166")
 
@@ -61,20 +74,79 @@ def build_certificate(plan: Plan) -> list[Flowable]:
                   "is the minimum", st["title"]),
         Paragraph(_statement(size, plan.vehicles), st["statement"]),
         Paragraph(_rule_text(plan), st["body"]),
+        *_at_a_glance(plan),
         *heading(f"The {size} jobs"),
         _jobs_table(plan),
     ]
-    slack = _slack_matrix(plan)
+    note = day_mark_note(day, [t for k in plan.certificate
+                               for t in (day.jobs[k].start, day.jobs[k].end)])
+    if note:
+        story.append(Paragraph(note, st["small"]))
     why = "Why no two of them can share a vehicle"
     if 1 < size <= SENTENCES_UP_TO:
         story += [*heading(why), _pair_sentences(plan), Spacer(1, 6)]
-        story += _matrix(plan, slack)
     elif 1 < size <= MATRIX_UP_TO:
-        story += _matrix(plan, slack, title=why)
+        story += _matrix(plan, title=why)
     elif size > MATRIX_UP_TO:
-        story += [*heading(why), *_closest_misses(plan, slack)]
+        story += [*heading(why), *_closest_misses(plan)]
     story += _theorem_and_fingerprint(plan)
     return story
+
+
+def _at_a_glance(plan: Plan) -> list[Flowable]:
+    """What convinces without the mathematics: the busiest moment on a time axis,
+    the count per class, and the pairs that come nearest to sharing a vehicle."""
+    st = styles()
+    day = plan.day
+    cert = list(plan.certificate)
+    moment, running = peak_moment(day, cert)
+    at_once = [cert[p] for p in running]
+    shown = cert if len(cert) <= MAX_BARS else at_once[:MAX_BARS]
+    text = (f"At {format_day_clock(moment)}, {len(at_once)} of these jobs are running at the "
+            "same time, so each of them needs its own vehicle (filled bars).")
+    rest = len(cert) - len(at_once)
+    if rest:
+        text += (f" Each of the other {rest} cannot be reached in time from any of them, nor "
+                 "they from it, or needs another vehicle class. For each of them the picture "
+                 "shows its nearest miss: the dashed line runs from the end of the earlier "
+                 "job to when a vehicle could at best be at the later job's start site, and "
+                 "drops to that job's row after it has begun. Every pair is listed below.")
+    if len(shown) < len(cert):
+        text += f" The picture shows {len(shown)} of the jobs running at that moment."
+    story = [*heading("At a glance", room=120), Paragraph(text, st["body"]),
+             peak_picture(plan, shown, moment, FRAME_WIDTH)]
+    counts = class_counts(plan)
+    if len(counts) > 1:
+        story.append(Paragraph("By vehicle class: " + "; ".join(
+            f"{esc(name or '(no class)', LIMITS['id'])}: {count} vehicle"
+            f"{'s' if count != 1 else ''} and {count} of these jobs"
+            for name, count in counts) + ".", st["body"]))
+    return story + _nearest_misses(plan)
+
+
+def _nearest_misses(plan: Plan) -> list[Flowable]:
+    misses = nearest_misses(plan.day, plan.certificate, NEAREST_MISSES_SHOWN)
+    if not misses:
+        return []
+    st = styles()
+    rows = [[Paragraph(h, st["cell_head"]) for h in ("Jobs", "In short", "Why")]]
+    for reason in misses:
+        rows.append([Paragraph(_pair_ids(plan, reason), st["cell"]),
+                     Paragraph(reason_label(reason), st["cell"]),
+                     Paragraph(esc(explain_pair(plan.day, reason.first, reason.second)),
+                               st["cell_small"])])
+    table = LongTable(rows, colWidths=[100, 80, FRAME_WIDTH - 180], repeatRows=1)
+    table.setStyle(TableStyle(grid_table_style()))
+    intro = ("The pairs that come nearest to sharing a vehicle. Only a change to the day "
+             "(a slot moved by at least this much, if the customer agrees) could let them "
+             "share one; that is where to look first for a vehicle less.")
+    return [*heading("Nearest misses", room=60), Paragraph(intro, st["body"]), table]
+
+
+def _pair_ids(plan: Plan, reason: PairReason) -> str:
+    jobs = plan.day.jobs
+    return (f"<b>{esc(jobs[reason.first].id, LIMITS['id'])}</b> then "
+            f"<b>{esc(jobs[reason.second].id, LIMITS['id'])}</b>")
 
 
 def _statement(size: int, vehicles: int) -> str:
@@ -87,7 +159,7 @@ def _statement(size: int, vehicles: int) -> str:
 
 def _rule_text(plan: Plan) -> str:
     turnaround = plan.day.settings.turnaround
-    gets = f"the drive and the {duration_text(turnaround)} turnaround get" if turnaround \
+    gets = f"the drive and the {format_duration(turnaround)} turnaround get" if turnaround \
         else "the drive gets"
     return ("A vehicle can do one job after another only if, once the first job ends, "
             f"{gets} it to the second job's start site no later than the "
@@ -106,75 +178,54 @@ def _jobs_table(plan: Plan) -> LongTable:
     rows = [[Paragraph(h, st["cell_head"]) for h in head]]
     for number, k in enumerate(plan.certificate, start=1):
         job = day.jobs[k]
-        place = esc(day.site_label(job.origin))
+        place = esc(day.site_label(job.origin), LIMITS["name"])
         if job.destination != job.origin:
-            place += " \u2192 " + esc(day.site_label(job.destination))
-        row = [Paragraph(str(number), st["cell"]), Paragraph(f"<b>{esc(job.id)}</b>", st["cell"]),
+            place += " \u2192 " + esc(day.site_label(job.destination), LIMITS["name"])
+        row = [Paragraph(str(number), st["cell"]),
+               Paragraph(f"<b>{esc(job.id, LIMITS['id'])}</b>", st["cell"]),
                Paragraph(slot_text(job), st["cell"]), Paragraph(place, st["cell"])]
         if classes:
-            row.append(Paragraph(esc(job.vehicle_class) or "(none)", st["cell"]))
+            row.append(Paragraph(esc(job.vehicle_class, LIMITS["id"]) or "(none)",
+                                 st["cell"]))
         rows.append(row)
     table = LongTable(rows, colWidths=widths, repeatRows=1)
     table.setStyle(TableStyle(grid_table_style()))
     return table
 
 
-def _slack_matrix(plan: Plan) -> list[list[int | None]]:
-    """``slack[a][b]``: seconds to spare when certificate job b follows job a."""
-    day, cert = plan.day, plan.certificate
-    return [[follow_slack(day, i, j) if i != j else None for j in cert] for i in cert]
-
-
-def why_neither_order(plan: Plan, a: int, b: int) -> str:
-    """Plain text (not markup) saying why jobs ``a`` and ``b`` (day indices) cannot share."""
-    day = plan.day
-    first, second = day.jobs[a], day.jobs[b]
-    forward, backward = follow_slack(day, a, b), follow_slack(day, b, a)
-    if forward is None or backward is None:
-        return f"{first.id} and {second.id} need different vehicle classes."
-    return (f"After {first.id}, the vehicle reaches {second.id}'s start site "
-            f"{_gap_text(forward)} {second.id} starts; after {second.id}, it reaches "
-            f"{first.id}'s start site {_gap_text(backward)} {first.id} starts.")
-
-
-def _gap_text(slack: int) -> str:
-    if slack < 0:
-        return f"{late_text(-slack)} after"
-    return f"{duration_text(slack)} before"  # only possible for a plan that failed its check
-
-
 def _pair_sentences(plan: Plan) -> LongTable:
     st = styles()
     cert = plan.certificate
     rows = [[Paragraph("Pair", st["cell_head"]),
-             Paragraph("Why neither order works", st["cell_head"])]]
+             Paragraph("Why they need two vehicles", st["cell_head"])]]
     for x in range(len(cert)):
         for y in range(x + 1, len(cert)):
             rows.append([Paragraph(f"{x + 1} & {y + 1}", st["cell"]),
-                         Paragraph(esc(why_neither_order(plan, cert[x], cert[y])), st["cell"])])
+                         Paragraph(esc(explain_pair(plan.day, cert[x], cert[y])), st["cell"])])
     table = LongTable(rows, colWidths=[40, FRAME_WIDTH - 40], repeatRows=1)
     table.setStyle(TableStyle(grid_table_style()))
     return table
 
 
-def _matrix_cell(slack: int | None) -> str:
-    if slack is None:
-        return "cls"
-    if slack >= 0:
-        return "ok"  # only possible for a plan that failed its check
-    minutes = math.ceil(-slack / 60)
-    return str(minutes) if minutes < 1000 else f"{round(minutes / 60)}h"
+def _matrix_cell(reason: PairReason) -> str:
+    """The table's short form of :func:`reason_label`: minutes short, 'ovl', 'cls'."""
+    if reason.kind == "short":
+        minutes = reason.short_minutes
+        return str(minutes) if minutes < 1000 else f"{round(minutes / 60)}h"
+    return {"overlap": "ovl", "class": "cls"}.get(reason.kind, "ok")  # ok: a failed check
 
 
-def _matrix(plan: Plan, slack: list[list[int | None]], *,
-            title: str | None = None) -> list[Flowable]:
+def _matrix(plan: Plan, *, title: str | None = None) -> list[Flowable]:
+    """Every pair once, earlier job in the row (the list is in start order)."""
     st = styles()
-    size = len(plan.certificate)
+    cert = plan.certificate
+    size = len(cert)
     cell = min(26.0, (FRAME_WIDTH - 22) / size)
     font_size = 7 if cell >= 19 else 6.2
     rows = [[""] + [str(b + 1) for b in range(size)]]
     for a in range(size):
-        rows.append([str(a + 1)] + ["\u2013" if a == b else _matrix_cell(slack[a][b])
+        rows.append([str(a + 1)] + ["" if b <= a else
+                                    _matrix_cell(pair_reason(plan.day, cert[a], cert[b]))
                                     for b in range(size)])
     table = LongTable(rows, colWidths=[22] + [cell] * size, repeatRows=1, hAlign="LEFT")
     table.setStyle(TableStyle([
@@ -189,56 +240,48 @@ def _matrix(plan: Plan, slack: list[list[int | None]], *,
         ("BOTTOMPADDING", (0, 0), (-1, -1), 2.5),
         ("LEFTPADDING", (0, 0), (-1, -1), 0.5),
         ("RIGHTPADDING", (0, 0), (-1, -1), 0.5),
-    ] + [("BACKGROUND", (a + 1, a + 1), (a + 1, a + 1), LIGHT_GREY) for a in range(size)]))
-    legend = ("How to read the table: the job in the row is done first, the job in the "
-              "column second (numbers as in the list above). Each number is how many minutes "
-              "too late the vehicle would reach the second job's start site; \u201ch\u201d "
-              "means hours. \u201ccls\u201d means the two jobs need different vehicle "
-              "classes. Every cell off the diagonal is filled, so neither order works for "
-              "any pair.")
-    # The matrix is at most 31 short rows: keep it on one page with its legend.
+    ] + [("BACKGROUND", (1, a + 1), (a + 1, a + 1), FAINT_GREY) for a in range(size)]))
+    legend = ("How to read the table: each pair appears once, the earlier job in the row "
+              "(numbers as in the list above); the later job can never go first, as it "
+              "starts later. A number is how many minutes too late a vehicle would reach the "
+              "second job's start site after the first (\u201ccannot follow: so many min "
+              "short\u201d, rounded up; \u201ch\u201d means hours); \u201covl\u201d means the "
+              "two jobs overlap in time; \u201ccls\u201d that they need different vehicle "
+              "classes. Every cell above the diagonal is filled, so no pair can share a "
+              "vehicle.")
+    # The table is at most 31 short rows: keep it on one page with its legend.
     block = [Paragraph(legend, st["body"]), table]
     if title:
         block.insert(0, Paragraph(title, st["heading"]))
     return [KeepTogether(block)]
 
 
-def _closest_misses(plan: Plan, slack: list[list[int | None]]) -> list[Flowable]:
+def _closest_misses(plan: Plan) -> list[Flowable]:
     st = styles()
     cert = plan.certificate
     size = len(cert)
-    intro = (f"All {size * (size - 1) // 2} pairs of these {size} jobs were checked by the "
+    intro = (f"All {size * (size - 1) // 2:,} pairs of these {size} jobs were checked by the "
              "independent verification of this plan. Listing them all would take too many "
              "pages, so for each job the table shows the other job it comes closest to "
              "sharing a vehicle with, and why even that does not work.")
     rows = [[Paragraph(h, st["cell_head"]) for h in
-             ("#", "Job", "Closest other job", "Why neither order works")]]
+             ("#", "Job", "Closest other job", "Why they need two vehicles")]]
+    partners = closest_partners(plan.day, cert)
     for a in range(size):
-        partner = _closest_partner(slack, a)
-        if partner is None:
+        partner = int(partners[a])
+        if partner < 0:
             reason = "Every other job in this set needs a different vehicle class."
             other = "\u2013"
         else:
-            reason = why_neither_order(plan, cert[a], cert[partner])
+            reason = explain_pair(plan.day, cert[a], cert[partner])
             other = f"{partner + 1}: {plan.day.jobs[cert[partner]].id}"
         rows.append([Paragraph(str(a + 1), st["cell"]),
-                     Paragraph(esc(plan.day.jobs[cert[a]].id), st["cell"]),
-                     Paragraph(esc(other), st["cell"]), Paragraph(esc(reason), st["cell"])])
+                     Paragraph(esc(plan.day.jobs[cert[a]].id, LIMITS["id"]), st["cell"]),
+                     Paragraph(esc(other, LIMITS["id"]), st["cell"]),
+                     Paragraph(esc(reason), st["cell_small"])])
     table = LongTable(rows, colWidths=[28, 72, 90, FRAME_WIDTH - 190], repeatRows=1)
     table.setStyle(TableStyle(grid_table_style()))
     return [Paragraph(intro, st["body"]), table]
-
-
-def _closest_partner(slack: list[list[int | None]], a: int) -> int | None:
-    """The other job whose better order misses by the least."""
-    best, best_gap = None, None
-    for b in range(len(slack)):
-        if b == a or slack[a][b] is None:
-            continue
-        gap = max(slack[a][b], slack[b][a])  # the better of the two orders
-        if best_gap is None or gap > best_gap:
-            best, best_gap = b, gap
-    return best
 
 
 def _theorem_and_fingerprint(plan: Plan) -> list[Flowable]:

@@ -7,6 +7,7 @@ import os
 from collections.abc import Mapping
 
 from reportlab.platypus import Flowable, NextPageTemplate, PageBreak
+from reportlab.platypus.doctemplate import LayoutError
 
 from shipgui.core import PlanNotVerified
 from shipgui.core.io.files import write_bytes_atomic
@@ -16,10 +17,15 @@ from .certificate import build_certificate
 from .pages import PlanDocTemplate
 from .route_sheet import build_route_sheet
 from .styles import register_fonts
-from .summary import build_summary
+from .summary import build_summary, plan_title
 from .text import plan_date_text
 
-__all__ = ["build_pdf_bytes", "write_plan_pdf"]
+__all__ = ["build_pdf_bytes", "write_plan_pdf", "PrintLayoutError"]
+
+
+class PrintLayoutError(Exception):
+    """Something on the plan could not be laid out on a page; the message is for the
+    dispatcher (reportlab's own text names its internal objects)."""
 
 
 def _require_verified(plan: Plan) -> None:
@@ -57,8 +63,9 @@ def build_pdf_bytes(plan: Plan, *, driver_names: Mapping[int, str] | None = None
     """The whole printed plan as PDF bytes: summary, one route sheet per vehicle, proof.
 
     The same plan and names always give the same bytes (reportlab's invariant mode).
-    Raises :class:`~shipgui.core.PlanNotVerified` if the plan failed its check, and
-    ``TypeError`` if ``driver_names`` does not map vehicle numbers to text.
+    Raises :class:`~shipgui.core.PlanNotVerified` if the plan failed its check,
+    :class:`PrintLayoutError` if something cannot be laid out, and ``TypeError``
+    if ``driver_names`` does not map vehicle numbers to text.
     Pages: the summary (more when the timeline needs them), then each vehicle's
     route sheet (more for long routes), then the proof.
     """
@@ -66,10 +73,16 @@ def build_pdf_bytes(plan: Plan, *, driver_names: Mapping[int, str] | None = None
     names = _checked_names(driver_names)
     register_fonts()
     buffer = io.BytesIO()
-    date = plan_date_text(plan.day)
-    document = PlanDocTemplate(buffer, plan_date=date, fingerprint=plan.day.fingerprint,
-                            title=f"Vehicle plan {date}")
-    document.build_story(_story(plan, names))
+    document = PlanDocTemplate(buffer, plan_date=plan_date_text(plan.day),
+                               fingerprint=plan.day.fingerprint, title=plan_title(plan))
+    try:
+        document.build_story(_story(plan, names))
+    except LayoutError:
+        # Every user value is cut to fit its place (report.text.LIMITS), so this
+        # is a guard: say what to do, not which flowable overflowed.
+        raise PrintLayoutError("The PDF could not be laid out: a value of the plan is too "
+                               "long to fit on a page. Shorten long notes, names or ids and "
+                               "export again.") from None
     return buffer.getvalue()
 
 

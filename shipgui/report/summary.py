@@ -3,23 +3,30 @@ and the timeline of all vehicles."""
 
 from __future__ import annotations
 
+import math
+
 from reportlab.platypus import Flowable, Paragraph, Spacer, Table, TableStyle
 
-from shipgui.core import format_clock
+from shipgui.core.clock import format_day_clock, format_duration, shown_minutes
 from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN, tradeoff_rows
+from shipgui.core.fleet.schedule import class_counts, vehicle_days
 from shipgui.core.model import Plan
 
 from .pages import SectionStart
 from .styles import FRAME_WIDTH, LIGHT_GREY, grid_table_style, heading, styles
-from .text import duration_text, esc, plan_date_text, source_names
+from .text import LIMITS, date_text, esc, plan_date_text, source_names
 from .timeline import Timeline, timeline_rows
 
-__all__ = ["build_summary", "MAX_WARNINGS_SHOWN", "EXTRA_VEHICLES_SHOWN"]
+__all__ = ["build_summary", "MAX_WARNINGS_SHOWN", "plan_title"]
 
 # Warnings beyond this many are counted, not printed: the summary is one page of facts.
 MAX_WARNINGS_SHOWN = 8
-# The trade-off table shows the minimum fleet and up to this many vehicles more.
-EXTRA_VEHICLES_SHOWN = TRADEOFF_SHOWN
+
+
+def plan_title(plan: Plan) -> str:
+    """'Vehicle plan for Mon 2026-03-02', or 'Vehicle plan' without a date."""
+    day = plan.day.plan_date
+    return "Vehicle plan" + (f" for {date_text(day)}" if day else "")
 
 
 def build_summary(plan: Plan) -> list[Flowable]:
@@ -33,15 +40,15 @@ def build_summary(plan: Plan) -> list[Flowable]:
     story: list[Flowable] = [
         SectionStart("Vehicle plan \u2014 summary", detail=f"Plan date: {plan_date_text(day)}",
                      continued="Vehicle plan \u2014 timeline (continued)"),
-        Paragraph("Vehicle plan" + (f" for {day.plan_date.isoformat()}" if day.plan_date
-                                    else ""), st["title"]),
+        Paragraph(esc(plan_title(plan)), st["title"]),
         Paragraph(_intro(plan), st["body"]),
         _facts_table(plan),
         *_warnings(day.warnings),
         *_tradeoff(plan),
         *heading("Timeline of all vehicles"),
         Paragraph("One row per vehicle, numbered as on the route sheets. Hours run along "
-                  "the top and bottom; 24 and later are the next morning.", st["small"]),
+                  "the top and bottom; hours after the line marked \u201c00 +1\u201d are on "
+                  "the next day.", st["small"]),
         Spacer(1, 4),
         Timeline(timeline_rows(plan)) if plan.routes else Paragraph("No jobs.", st["body"]),
     ]
@@ -56,28 +63,34 @@ def _intro(plan: Plan) -> str:
 
 
 def _facts(plan: Plan) -> list[tuple[str, str]]:
+    """(label, value markup) rows of the facts table, in print order."""
     day = plan.day
     job_time = sum(job.end - job.start for job in day.jobs)
     facts = [("Plan date", esc(plan_date_text(day)))]
     for kind, name in source_names(day):
-        facts.append((f"{kind.capitalize()} file", esc(name)))
+        facts.append((f"{kind.capitalize()} file", esc(name, LIMITS["file"])))
     facts += [
         ("Input fingerprint", f"<b>{esc(day.fingerprint)}</b>"),
         ("Vehicles needed", f"<b>{plan.vehicles}</b>"),
+    ]
+    counts = class_counts(plan)
+    if len(counts) > 1:
+        facts.append(("Vehicles by class", " \u00b7 ".join(
+            f"{esc(name or '(no class)', LIMITS['id'])} <b>{count}</b>"
+            for name, count in counts)))
+    facts += [
         ("Jobs", str(day.n)),
-        ("Total job time", duration_text(job_time)),
+        ("Total job time", format_duration(job_time)),
         ("Total empty driving", _empty_driving_text(plan)),
-        ("Turnaround between jobs", duration_text(day.settings.turnaround)),
+        ("Turnaround between jobs", format_duration(day.settings.turnaround)),
     ]
     settings = day.settings
     if settings.depot is not None:
         hours = ""
         if settings.day_start is not None and settings.day_end is not None:
-            hours = (f", open {format_clock(settings.day_start)}\u2013"
-                     f"{format_clock(settings.day_end)}")
-        facts.append(("Depot", esc(day.site_label(settings.depot)) + hours))
-    if len(day.class_names) > 1:
-        facts.append(("Vehicle classes", esc(", ".join(day.class_names))))
+            hours = (f", open {format_day_clock(settings.day_start)}\u2013"
+                     f"{format_day_clock(settings.day_end)}")
+        facts.append(("Depot", esc(day.site_label(settings.depot), LIMITS["name"]) + hours))
     facts.append(("Independent check", "passed: every job is on exactly one route, every "
                   "route can be driven, and the proof holds"))
     return facts
@@ -88,12 +101,16 @@ def _vehicles_text(count: int) -> str:
 
 
 def _empty_driving_text(plan: Plan) -> str:
-    text = duration_text(plan.deadhead_seconds)
+    text = format_duration(plan.deadhead_seconds)
     if plan.least_deadhead and plan.vehicles:
         text += (f"<br/><font size=8>the least possible with "
                  f"{_vehicles_text(plan.vehicles)}</font>")
     elif plan.vehicles:
         text += "<br/><font size=8>not minimised: any plan with this many vehicles</font>"
+    sheets = sum(math.ceil(s / 60) for v in vehicle_days(plan) for s in (*v.before, v.pull_in))
+    if sheets != shown_minutes(plan.deadhead_seconds):
+        text += (f"<br/><font size=8>{format_duration(sheets * 60)} on the route sheets, which "
+                 "round each drive up to the minute</font>")
     return text
 
 
@@ -117,7 +134,7 @@ def _warnings(warnings: tuple[str, ...]) -> list[Flowable]:
     if not warnings:
         return [Spacer(1, 4), Paragraph("No warnings about the input.", st["body"])]
     shown = warnings[:MAX_WARNINGS_SHOWN]
-    items = [Paragraph(f"\u2022 {esc(w)}", st["body"]) for w in shown]
+    items = [Paragraph(f"\u2022 {esc(w, LIMITS['warning'])}", st["body"]) for w in shown]
     hidden = len(warnings) - len(shown)
     if hidden:
         items.append(Paragraph(f"\u2026 and {hidden} more warnings, listed when the plan "
@@ -132,7 +149,7 @@ def _tradeoff(plan: Plan) -> list[Flowable]:
     as printed.  The "exactly this many" column is shown only when it prints
     differently from the "at most" column in some row.
     """
-    rows = tradeoff_rows(plan, EXTRA_VEHICLES_SHOWN)
+    rows = tradeoff_rows(plan, TRADEOFF_SHOWN)
     if not rows or plan.vehicles == 0:
         return []
     st = styles()
@@ -147,10 +164,10 @@ def _tradeoff(plan: Plan) -> list[Flowable]:
     for row in rows:
         this_plan = row.vehicles == fewest
         cells = [f"{row.vehicles} (this plan)" if this_plan else str(row.vehicles),
-                 duration_text(row.at_most),
-                 "\u2014" if this_plan else duration_text(row.saving_minutes * 60)]
+                 format_duration(row.at_most),
+                 "\u2014" if this_plan else format_duration(row.saving_minutes * 60)]
         if show_exact:
-            cells.append(duration_text(row.exactly))
+            cells.append(format_duration(row.exactly))
         table_rows.append([Paragraph(cells[0], st["cell"]),
                            *(Paragraph(c, st["cell_right"]) for c in cells[1:])])
     widths = [95, 95, 110] + ([110] if show_exact else [])
@@ -170,7 +187,7 @@ def _tradeoff(plan: Plan) -> list[Flowable]:
         notes.append("\u201cExactly this many out\u201d is the least empty driving when "
                      f"all of them are used; it can be more than with fewer vehicles{why}.")
     last = rows[-1].vehicles
-    if last == plan.day.n and last < fewest + EXTRA_VEHICLES_SHOWN:
+    if last == plan.day.n and last < fewest + TRADEOFF_SHOWN:
         notes.append(f"More than {_vehicles_text(last)} would change nothing: with "
                      f"{last}, each vehicle does a single job.")
     if notes:

@@ -17,7 +17,7 @@ from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.platypus import Flowable
 
-from shipgui.core.fleet.deadhead import route_legs
+from shipgui.core.fleet.schedule import vehicle_days
 from shipgui.core.model import Plan
 
 from .styles import FAINT_GREY, FONT, FONT_BOLD, INK, LIGHT_GREY, MID_GREY
@@ -43,20 +43,16 @@ class TimelineRow:
 
 
 def timeline_rows(plan: Plan) -> list[TimelineRow]:
-    """One row per vehicle.  An empty drive is drawn ending at the start of the job it
-    leads to (the latest the driver can leave); the drive back to the depot starts
-    when the last job ends."""
+    """One row per vehicle, from the shared vehicle-day builder
+    (:func:`shipgui.core.fleet.schedule.vehicle_days`): an empty drive ends at the
+    start of the job it leads to (the latest the driver can leave); the drive back
+    to the depot starts when the last job ends."""
     day = plan.day
-    rows = []
-    for number, route in enumerate(plan.routes, start=1):
-        legs = route_legs(day, route)
-        jobs = tuple((day.jobs[k].start, day.jobs[k].end, day.jobs[k].id) for k in route)
-        drives = [(start - before, start) for (start, _, _), before in zip(jobs, legs.before,
-                                                                          strict=True) if before]
-        if legs.pull_in:
-            drives.append((jobs[-1][1], jobs[-1][1] + legs.pull_in))
-        rows.append(TimelineRow(number, jobs, tuple(drives)))
-    return rows
+    return [TimelineRow(v.vehicle,
+                        tuple((day.jobs[k].start, day.jobs[k].end, day.jobs[k].id)
+                              for k in v.jobs),
+                        tuple((d.start, d.end) for d in v.drives))
+            for v in vehicle_days(plan)]
 
 
 def _hour_range(rows: list[TimelineRow]) -> tuple[int, int]:
@@ -126,7 +122,8 @@ class Timeline(Flowable):
             picture.add(Line(x, bottom, x, top, strokeColor=MID_GREY if major else LIGHT_GREY,
                              strokeWidth=0.6 if major else 0.35))
             if (hour - first) % step == 0:
-                label = f"{hour:02d}"
+                label = f"{hour % 24:02d}" + (f" {hour // 24:+d}" if hour % 24 == 0 and hour
+                                              else "")
                 for y in (top + 4, bottom - 10):
                     picture.add(String(x, y, label, fontName=FONT, fontSize=7,
                                        textAnchor="middle", fillColor=INK))

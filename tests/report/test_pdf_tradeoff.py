@@ -11,9 +11,9 @@ import pytest
 from shipgui.core import solve_day
 from shipgui.core.clock import format_duration
 from shipgui.core.demo import load_demo
+from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN as EXTRA_VEHICLES_SHOWN
 from shipgui.core.model import Job
 from shipgui.report import build_pdf_bytes
-from shipgui.report.summary import EXTRA_VEHICLES_SHOWN
 from tests.report.pdf_helpers import HOUR, make_day, page_texts, small_day, two_site_travel
 
 HEADING = "What more vehicles would save"
