@@ -3,11 +3,13 @@
 from __future__ import annotations
 
 import dataclasses
+import re
 
 from PySide6.QtTest import QAbstractItemModelTester
 
 from shipgui.core import Job, solve_day
 from shipgui.core.demo import load_demo
+from shipgui.core.fleet.explain import explain_pair as core_explain_pair
 from shipgui.gui.panels.certificate_panel import (
     CertificatePanel,
     PairColumn,
@@ -30,7 +32,7 @@ def test_summary_sentence():
 def test_pair_running_at_the_same_time():
     day = small_document().build()
     text = explain_pair(day, 0, 2)  # J1 08:00-09:00, J3 08:30-11:00
-    assert text == "J3 starts at 08:30, while J1 is still running (until 09:00)."
+    assert text == "They overlap: J3 starts at 08:30, while J1 is still running (until 09:00)."
 
 
 def test_pair_short_by_turnaround_and_drive():
@@ -38,11 +40,31 @@ def test_pair_short_by_turnaround_and_drive():
     doc.jobs[1] = dataclasses.replace(doc.jobs[1], start=9 * 3600 + 900)  # J2 at 09:15 from B
     day = doc.build()
     text = explain_pair(day, 0, 1)
-    assert text.startswith("After J1 ends at 09:00 and 10 min turnaround, the vehicle reaches "
-                           "J2's start at 09:10")
+    assert text.startswith("After J1 ends at 09:00 at Middle stop, the 10 min turnaround "
+                           "brings the vehicle there at 09:10, in time for J2")
     doc.jobs[1] = dataclasses.replace(doc.jobs[1], origin="C", start=9 * 3600 + 900)
-    text = explain_pair(doc.build(), 0, 1)
-    assert "drive from B to C" in text and "min after J2 starts (09:15)" in text
+    day = doc.build()
+    text = explain_pair(day, 0, 1)
+    # 6 km x 1.2 / 50 km/h = 8.64 min: there at 09:18:39, so 4 min short (rounded up).
+    assert "the 9 min drive to South stop" in text and "4 min after J2 starts (09:15)" in text
+
+
+def test_panel_says_it_as_the_printout_does(qapp):
+    # Whole minutes rounded up, overlap said as overlap (not "Short by 171.6 min").
+    doc = small_document()
+    doc.jobs[1] = dataclasses.replace(doc.jobs[1], origin="C", start=9 * 3600 + 900)
+    plan = solve_day(doc.build())
+    model = PairsModel()
+    model.set_plan(plan)
+    labels = {model.pair(r): model.index(r, PairColumn.SHORT_BY).data()
+              for r in range(model.rowCount())}
+    reasons = {model.pair(r): model.index(r, PairColumn.REASON).data()
+               for r in range(model.rowCount())}
+    for (a, b), label in labels.items():
+        assert label in ("overlap", "different vehicle classes") or re.fullmatch(
+            r"cannot follow: \d+ min short", label), label
+        index = {j.id: k for k, j in enumerate(plan.day.jobs)}
+        assert reasons[(a, b)] == core_explain_pair(plan.day, index[a], index[b])
 
 
 def test_pair_of_different_classes():
@@ -60,7 +82,10 @@ def test_pairs_model_lists_every_pair(qapp):
     assert model.rowCount() == n * (n - 1) // 2
     first, second = model.pair(0)
     assert first in plan.certificate_ids() and second in plan.certificate_ids()
-    assert model.index(0, PairColumn.SHORT_BY).data().endswith("min")
+    label = model.index(0, PairColumn.SHORT_BY).data()
+    assert label == "overlap" or label.startswith("cannot follow: ")
+    pairs = {model.pair(r) for r in range(model.rowCount())}
+    assert len(pairs) == model.rowCount()  # every pair once
     assert model.index(0, PairColumn.REASON).data()
     model.set_plan(None)
     assert model.rowCount() == 0

@@ -88,7 +88,8 @@ def reason_sentence(day: Day, reason: PairReason) -> str:
     if a.destination != b.origin:
         steps.append(f"the {format_duration(reason.drive)} drive to "
                      f"{day.site_label(b.origin)}")
-    how = f", {' and '.join(steps)} bring the vehicle there" if steps \
+    verb = "brings" if len(steps) == 1 else "bring"
+    how = f", {' and '.join(steps)} {verb} the vehicle there" if steps \
         else ", the vehicle is there"
     arrive = _minute_up(reason.arrive)
     if reason.kind == "short":

@@ -28,6 +28,7 @@ from PySide6.QtWidgets import (
 from shipgui.core import Plan
 from shipgui.core.clock import format_duration, shown_minutes
 from shipgui.core.fleet.deadhead import tradeoff_rows as core_tradeoff_rows
+from shipgui.core.fleet.schedule import class_counts
 
 __all__ = ["AnswerBar", "hours_minutes", "saving_text", "tradeoff_rows", "tradeoff_html"]
 
@@ -95,6 +96,10 @@ def _table_html(plan: Plan, rows: list[tuple[int, str, str, str]]) -> str:
             + "".join(f"<p>{note}</p>" for note in notes))
 
 
+def _short(text: str, limit: int = 24) -> str:
+    return text if len(text) <= limit else text[:limit - 1] + "…"
+
+
 class _Figure(QWidget):
     """A big value with a small caption beside it (and room for a line under the caption)."""
 
@@ -121,6 +126,12 @@ class AnswerBar(QFrame):
         super().__init__(parent)
         self.setObjectName("answerBar")
         self.vehicles = _Figure("vehicles needed")
+        # Vehicles per class under the caption; shown only when the day has classes.
+        self.by_class = QLabel()
+        self.by_class.setObjectName("vehiclesByClass")
+        self.by_class.setTextFormat(Qt.TextFormat.PlainText)
+        self.by_class.setVisible(False)
+        self.vehicles.notes.addWidget(self.by_class)
         self.deadhead = _Figure("empty driving")
         # What more vehicles would save; shown only for a plan with a trade-off.
         self.saving = QLabel()
@@ -170,13 +181,14 @@ class AnswerBar(QFrame):
         self.setStyleSheet(
             "#answerBar { background: #f1f4f8; border-bottom: 1px solid #d6dce4; }"
             " #figureValue { font-size: 20px; font-weight: 600; color: #22303f; }"
-            " #figureCaption { color: #56657a; }"
+            " #figureCaption, #vehiclesByClass { color: #56657a; }"
             " #verifiedBadge { color: #ffffff; background: #3f8a5f; border-radius: 4px;"
             " padding: 2px 8px; font-weight: 600; }"
             " #solveStatus { color: #56657a; }")
 
     def show_plan(self, plan: Plan, seconds: float) -> None:
         self.vehicles.value.setText(str(plan.vehicles))
+        self._show_classes(plan)
         self.deadhead.value.setText(hours_minutes(plan.deadhead_seconds))
         self._show_tradeoff(plan)
         self.verified.setVisible(bool(plan.verified))
@@ -185,6 +197,14 @@ class AnswerBar(QFrame):
         # No-break spaces: a narrow bar wraps between the parts, not inside them.
         parts = ("Up to date", f"{plan.day.n} jobs", f"solved in {seconds * 1000:.0f} ms")
         self.status.setText(" · ".join(p.replace(" ", "\u00a0") for p in parts) + note)
+
+    def _show_classes(self, plan: Plan | None) -> None:
+        counts = class_counts(plan) if plan is not None else []
+        shown = len(counts) > 1
+        self.by_class.setVisible(shown)
+        self.by_class.setText(" · ".join(f"{_short(name or '(no class)')} {count}"
+                                         for name, count in counts) if shown else "")
+        self.by_class.setToolTip("Vehicles needed per vehicle class" if shown else "")
 
     def _show_tradeoff(self, plan: Plan | None) -> None:
         """The least-for-this-fleet note, the one-more-vehicle line and the list;
@@ -239,6 +259,7 @@ class AnswerBar(QFrame):
     def show_nothing(self, why: str) -> None:
         self.vehicles.value.setText("–")
         self.deadhead.value.setText("–")
+        self._show_classes(None)
         self._show_tradeoff(None)
         self.verified.setVisible(False)
         self.set_busy(False)

@@ -1,13 +1,15 @@
 """Why the plan cannot use fewer vehicles: the certificate in plain words.
 
 The certificate is a set of jobs no two of which can share a vehicle.  The
-panel says so in one sentence and lists every pair with the reason.
+panel says so in one sentence and lists every pair with the reason, in the
+words and rounding the printed proof uses (:mod:`shipgui.core.fleet.explain`).
 """
 
 from __future__ import annotations
 
 from enum import IntEnum
 
+import numpy as np
 from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt, Signal
 from PySide6.QtWidgets import (
     QAbstractItemView,
@@ -18,7 +20,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from shipgui.core import Day, Plan, follow_slack, format_clock, format_minutes
+from shipgui.core import Day, Plan
+from shipgui.core.fleet.explain import explain_pair, pair_reason, reason_label
 
 __all__ = ["certificate_summary", "explain_pair", "PairColumn", "PairsModel",
            "CertificatePanel"]
@@ -39,35 +42,6 @@ def certificate_summary(plan: Plan) -> str:
     return text
 
 
-def _class_name(day: Day, k: int) -> str:
-    name = day.jobs[k].vehicle_class
-    return f"a '{name}' vehicle" if name else "a vehicle of no particular class"
-
-
-def explain_pair(day: Day, i: int, j: int) -> str:
-    """Why jobs ``i`` and ``j`` (job indices, ``i`` starting no later) need two vehicles."""
-    a, b = day.jobs[i], day.jobs[j]
-    slack = follow_slack(day, i, j)
-    if slack is None:
-        return f"{a.id} needs {_class_name(day, i)} and {b.id} needs {_class_name(day, j)}."
-    if b.start < a.end:
-        return (f"{b.id} starts at {format_clock(b.start)}, while {a.id} is still running "
-                f"(until {format_clock(a.end)}).")
-    turnaround = day.settings.turnaround
-    drive = day.travel_between(a.destination, b.origin)
-    arrive = a.end + turnaround + drive
-    steps = []
-    if turnaround:
-        steps.append(f"{format_minutes(turnaround)} min turnaround")
-    if a.destination != b.origin:
-        steps.append(f"the {format_minutes(drive)} min drive from {a.destination} "
-                     f"to {b.origin}")
-    after = f" and {' and '.join(steps)}" if steps else ""
-    return (f"After {a.id} ends at {format_clock(a.end)}{after}, the vehicle reaches "
-            f"{b.id}'s start at {format_clock(arrive)}, {format_minutes(-slack)} min after "
-            f"{b.id} starts ({format_clock(b.start)}).")
-
-
 class PairColumn(IntEnum):
     FIRST = 0
     SECOND = 1
@@ -75,34 +49,43 @@ class PairColumn(IntEnum):
     REASON = 3
 
 
-_PAIR_HEADINGS = ("Job", "and job", "Short by", "Why they need two vehicles")
+_PAIR_HEADINGS = ("Job", "and job", "In short", "Why they need two vehicles")
 
 
 class PairsModel(QAbstractTableModel):
-    """Every pair of certificate jobs, earlier-starting job first."""
+    """Every pair of certificate jobs, earlier-starting job first.
+
+    Pairs are found from the row number (rows of job x start at ``_offsets[x]``),
+    so a certificate of a thousand jobs never becomes a list of half a million.
+    """
 
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
         self._day: Day | None = None
-        self._pairs: list[tuple[int, int]] = []
+        self._cert: list[int] = []
+        self._offsets = np.zeros(1, dtype=np.int64)
 
     def set_plan(self, plan: Plan | None) -> None:
         self.beginResetModel()
         if plan is None:
-            self._day, self._pairs = None, []
+            self._day, self._cert = None, []
         else:
             self._day = plan.day
-            cert = sorted(plan.certificate, key=lambda k: (int(plan.day.start[k]), k))
-            self._pairs = [(cert[x], cert[y]) for x in range(len(cert))
-                           for y in range(x + 1, len(cert))]
+            self._cert = sorted(plan.certificate, key=lambda k: (int(plan.day.start[k]), k))
+        later = np.arange(len(self._cert) - 1, -1, -1, dtype=np.int64)  # pairs per job
+        self._offsets = np.concatenate([[0], np.cumsum(later)])
         self.endResetModel()
 
+    def _pair(self, row: int) -> tuple[int, int]:
+        x = int(np.searchsorted(self._offsets, row, side="right")) - 1
+        return self._cert[x], self._cert[x + 1 + row - int(self._offsets[x])]
+
     def pair(self, row: int) -> tuple[str, str]:
-        i, j = self._pairs[row]
+        i, j = self._pair(row)
         return self._day.jobs[i].id, self._day.jobs[j].id
 
     def rowCount(self, parent: AnyIndex = ROOT) -> int:
-        return 0 if parent.isValid() else len(self._pairs)
+        return 0 if parent.isValid() else int(self._offsets[-1])
 
     def columnCount(self, parent: AnyIndex = ROOT) -> int:
         return 0 if parent.isValid() else len(PairColumn)
@@ -114,9 +97,9 @@ class PairsModel(QAbstractTableModel):
         return None
 
     def data(self, index: AnyIndex, role: int = Qt.ItemDataRole.DisplayRole):
-        if not index.isValid() or self._day is None or index.row() >= len(self._pairs):
+        if not index.isValid() or self._day is None or index.row() >= self.rowCount():
             return None
-        i, j = self._pairs[index.row()]
+        i, j = self._pair(index.row())
         column = PairColumn(index.column())
         if role == Qt.ItemDataRole.DisplayRole:
             if column == PairColumn.FIRST:
@@ -124,8 +107,7 @@ class PairsModel(QAbstractTableModel):
             if column == PairColumn.SECOND:
                 return self._day.jobs[j].id
             if column == PairColumn.SHORT_BY:
-                slack = follow_slack(self._day, i, j)
-                return "other class" if slack is None else f"{format_minutes(-slack)} min"
+                return reason_label(pair_reason(self._day, i, j))
             return explain_pair(self._day, i, j)
         if role == Qt.ItemDataRole.ToolTipRole and column == PairColumn.REASON:
             return explain_pair(self._day, i, j)

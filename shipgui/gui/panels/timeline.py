@@ -14,8 +14,9 @@ from PySide6.QtWidgets import (
     QGraphicsView,
 )
 
-from shipgui.core import Plan, format_clock, format_minutes
-from shipgui.core.fleet.deadhead import route_legs
+from shipgui.core import Plan
+from shipgui.core.clock import format_day_clock, format_duration
+from shipgui.core.fleet.schedule import vehicle_days
 
 __all__ = ["TimelineView", "JobBar", "COLOURS"]
 
@@ -89,6 +90,7 @@ class TimelineView(QGraphicsView):
         self._pinned_axis: list[QGraphicsItem] = []
         self._t0 = 0
         self._label_width = LABEL_WIDTH
+        self._days: list = []  # the plan's vehicle days (core.fleet.schedule), when shown
         self._quiet = False
         self._message = "No plan yet."
         self.scene().selectionChanged.connect(self._on_selection)
@@ -209,16 +211,13 @@ class TimelineView(QGraphicsView):
         plan = self._plan
         day = plan.day
         lo, hi = int(day.start.min()), int(day.end.max())
-        legs_lo, legs_hi = lo, hi
-        for route in plan.routes:
-            legs = route_legs(day, route)
-            legs_lo = min(legs_lo, int(day.start[route[0]]) - legs.before[0])
-            legs_hi = max(legs_hi, int(day.end[route[-1]]) + legs.pull_in)
+        for v in self._days:  # the shared vehicle days: drives out and back included
+            lo, hi = min(lo, v.day_start), max(hi, v.day_end)
         s = day.settings
         for t in (s.day_start, s.day_end):
             if t is not None:
-                legs_lo, legs_hi = min(legs_lo, t), max(legs_hi, t)
-        return (math.floor(legs_lo / 3600) * 3600, math.ceil(legs_hi / 3600) * 3600)
+                lo, hi = min(lo, t), max(hi, t)
+        return (math.floor(lo / 3600) * 3600, math.ceil(hi / 3600) * 3600)
 
     def _span_hours(self) -> float:
         lo, hi = self._span()
@@ -238,6 +237,7 @@ class TimelineView(QGraphicsView):
             text.setPos(16, 16)
             scene.setSceneRect(0, 0, 400, 80)
             return
+        self._days = vehicle_days(self._plan)
         self._t0, t1 = self._span()
         rows = len(self._plan.routes)
         self._label_width = self._measure_labels(rows)
@@ -247,8 +247,8 @@ class TimelineView(QGraphicsView):
         self._draw_rows(rows, width)
         self._draw_hours(t1, height)
         self._draw_day_limits(height)
-        for k, route in enumerate(self._plan.routes):
-            self._draw_route(k, route)
+        for k, vehicle in enumerate(self._days):
+            self._draw_route(k, vehicle)
         self._draw_labels(rows, height)
         self._colour_bars()
         self._pin()
@@ -272,7 +272,7 @@ class TimelineView(QGraphicsView):
             x = self._x(hour * 3600)
             scene.addLine(x, AXIS_HEIGHT, x, height, grid_pen).setZValue(-1)
             if hour % step == 0:
-                label = QGraphicsSimpleTextItem(format_clock(hour * 3600), axis)
+                label = QGraphicsSimpleTextItem(format_day_clock(hour * 3600), axis)
                 label.setBrush(QBrush(COLOURS["label"]))
                 label.setPos(x - label.boundingRect().width() / 2, 5)
             if self._px_per_hour >= 160:  # quarter-hour ticks when zoomed in
@@ -289,27 +289,25 @@ class TimelineView(QGraphicsView):
                 self.scene().addLine(self._x(t), AXIS_HEIGHT, self._x(t), height,
                                      pen).setZValue(0)
 
-    def _draw_route(self, k: int, route: tuple[int, ...]) -> None:
+    def _draw_route(self, k: int, vehicle) -> None:
+        """One vehicle's row: its empty drives (thin bars) and jobs, from the vehicle
+        day the printed timeline uses too (:func:`~shipgui.core.fleet.schedule.vehicle_days`)."""
         day = self._plan.day
         scene = self.scene()
         y = AXIS_HEIGHT + k * ROW_HEIGHT + (ROW_HEIGHT - BAR_HEIGHT) / 2
-        legs = route_legs(day, route)
         leg_brush = QBrush(COLOURS["leg"])
         leg_y = y + (BAR_HEIGHT - LEG_HEIGHT) / 2
+        for drive in vehicle.drives:
+            leg = scene.addRect(QRectF(self._x(drive.start), leg_y,
+                                       drive.seconds / 3600 * self._px_per_hour, LEG_HEIGHT),
+                                QPen(Qt.PenStyle.NoPen), leg_brush)
+            leg.setToolTip(_drive_tooltip(day, drive))
+            leg.setZValue(1)
         font = QFont()
         font.setPointSizeF(max(7.0, font.pointSizeF() - 1))
         metrics = QFontMetricsF(font)
-        for pos, j in enumerate(route):
+        for j in vehicle.jobs:
             job = day.jobs[j]
-            empty = legs.before[pos]
-            if empty:
-                where = "the depot" if pos == 0 else day.jobs[route[pos - 1]].destination
-                leg = scene.addRect(QRectF(self._x(job.start - empty), leg_y,
-                                           empty / 3600 * self._px_per_hour, LEG_HEIGHT),
-                                    QPen(Qt.PenStyle.NoPen), leg_brush)
-                leg.setToolTip(f"Empty drive {format_minutes(empty)} min from {where} "
-                               f"to {job.origin}")
-                leg.setZValue(1)
             rect = QRectF(self._x(job.start), y, (job.end - job.start) / 3600
                           * self._px_per_hour, BAR_HEIGHT)
             bar = JobBar(rect, job.id, _job_tooltip(day, job))
@@ -320,13 +318,6 @@ class TimelineView(QGraphicsView):
                 text.setFont(font)
                 text.setBrush(QBrush(COLOURS["job_text"]))
                 text.setPos(rect.x() + 4, rect.y() + (BAR_HEIGHT - metrics.height()) / 2)
-        if legs.pull_in:
-            last = day.jobs[route[-1]]
-            leg = scene.addRect(QRectF(self._x(last.end), leg_y,
-                                       legs.pull_in / 3600 * self._px_per_hour, LEG_HEIGHT),
-                                QPen(Qt.PenStyle.NoPen), leg_brush)
-            leg.setToolTip(f"Empty drive back to the depot, {format_minutes(legs.pull_in)} min")
-            leg.setZValue(1)
 
     def _label(self, k: int) -> str:
         name = self._names.get(k + 1, "")
@@ -386,8 +377,16 @@ class TimelineView(QGraphicsView):
             self.job_selected.emit(job_id)
 
 
+def _drive_tooltip(day, drive) -> str:
+    if drive.kind == "back":
+        return f"Empty drive back to the depot, {format_duration(drive.seconds)}"
+    origin = "the depot" if drive.kind == "out" else day.site_label(drive.origin)
+    return (f"Empty drive {format_duration(drive.seconds)} from {origin} "
+            f"to {day.site_label(drive.destination)}")
+
+
 def _job_tooltip(day, job) -> str:
-    lines = [f"{job.id}: {format_clock(job.start)}–{format_clock(job.end)}",
+    lines = [f"{job.id}: {format_day_clock(job.start)}–{format_day_clock(job.end)}",
              f"{day.site_label(job.origin)} → {day.site_label(job.destination)}"]
     if job.customer:
         lines.append(job.customer)
