@@ -231,3 +231,21 @@ def test_settings_from_a_plan_file_keep_what_the_command_line_does_not_set(tmp_p
     base = Settings(turnaround=300, max_day=11 * 3600)
     args = cli._solve_parser().parse_args(["x.csv", "--turnaround", "7"])
     assert cli._settings(args, base) == replace(base, turnaround=420)
+
+
+def test_site_details_from_the_sites_file_reach_the_sheet_and_plan_files(tmp_path):
+    from pypdf import PdfReader
+
+    from shipgui.core.io.plan_file import plan_file_bytes, read_plan_file
+    from shipgui.core.io.readers import read_inputs
+    sites = tmp_path / "sites.csv"
+    sites.write_text("site,name,contact,phone,opening_hours,access_notes\n"
+                     "A,Pelling mill,Ada Brackwater,01632 960 555,07:00-16:00,Gate code 4711\n")
+    jobs, pdf = _jobs(tmp_path), tmp_path / "plan.pdf"
+    assert main(["solve", str(jobs), "--sites", str(sites), "--pdf", str(pdf)]) == 0
+    text = " ".join(" ".join(page.extract_text().split()) for page in PdfReader(pdf).pages)
+    assert "Ada Brackwater · 01632 960 555" in text and "Access: Gate code 4711" in text
+    inputs = read_inputs(jobs, sites)
+    saved = tmp_path / "day.shipgui"
+    saved.write_bytes(plan_file_bytes(inputs))
+    assert read_plan_file(saved).sites == inputs.sites
