@@ -6,11 +6,10 @@ import csv
 import importlib.util
 from collections.abc import Callable
 from pathlib import Path
-from typing import TYPE_CHECKING
 
-from PySide6.QtCore import QMimeData, QObject
-from PySide6.QtGui import QAction, QKeySequence
-from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QStyle
+from PySide6.QtCore import QMimeData, QObject, Signal
+from PySide6.QtGui import QAction, QKeySequence, QUndoStack
+from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QStyle, QWidget
 
 from shipgui.core import InputError, Plan, Problem, Settings, read_sites, read_travel
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
@@ -21,11 +20,12 @@ from shipgui.core.io.files import write_bytes_atomic
 from shipgui.core.io.plan_file import PLAN_SUFFIX
 from shipgui.core.io.readers import read_inputs
 
+from .actions import make_action
 from .models.commands import AttachSites, AttachTravel
 from .panels.problems import ProblemsDialog
-
-if TYPE_CHECKING:
-    from .main_window import MainWindow
+from .services.exports import ExportController
+from .services.settings import AppSettings
+from .wording import os_error_text
 
 __all__ = ["FileActions", "find_pdf_writer", "OPEN_FILTER", "csv_kind", "companion_files"]
 
@@ -48,38 +48,55 @@ def find_pdf_writer() -> Callable | None:
 
 
 class FileActions(QObject):
-    """File menu actions for one window; dialogs are QFileDialog / QMessageBox statics."""
+    """File menu actions for one window; dialogs are QFileDialog / QMessageBox statics.
 
-    def __init__(self, window: MainWindow) -> None:
-        super().__init__(window)
-        self.window = window
-        self.settings = window.settings
+    Works on the window's document, undo stack and settings; ``current_plan()``
+    gives the plan on screen when it matches the inputs (else None).  What the
+    window must do in turn comes out as signals: ``opened`` (show this day),
+    ``saved`` (the day is safe in this file) and ``message`` (status-bar text).
+    """
+
+    opened = Signal(object, object)  # DayDocument, Path it came from
+    saved = Signal(object)  # Path
+    message = Signal(str, int)  # text, milliseconds
+    quit_requested = Signal()
+
+    def __init__(self, document: DayDocument, undo_stack: QUndoStack, settings: AppSettings,
+                 current_plan: Callable[[], Plan | None], parent: QWidget) -> None:
+        super().__init__(parent)
+        self.document = document
+        self.undo_stack = undo_stack
+        self.settings = settings
+        self.current_plan = current_plan
+        self.dialog_parent = parent
         self.problem_dialog: ProblemsDialog | None = None
         self.pdf_writer = find_pdf_writer()
+        self.exports = ExportController(self)
+        self.exports.busy_changed.connect(lambda _busy: self.update_actions())
+        self.exports.finished.connect(
+            lambda path: self.message.emit(f"Exported {path.name}", 5000))
+        self.exports.failed.connect(self._export_failed)
+        self.exports.cancelled.connect(
+            lambda what: self.message.emit(f"Export of {what} cancelled; nothing was written.",
+                                           5000))
         sp = QStyle.StandardPixmap
-        style = window.style()
-
-        def action(text, slot, shortcut=None, icon=None) -> QAction:
-            a = QAction(text, window)
-            if shortcut is not None:
-                a.setShortcut(QKeySequence(shortcut))
-            if icon is not None:
-                a.setIcon(style.standardIcon(icon))
-            a.triggered.connect(slot)
-            return a
-
-        self.open_action = action("Open…", self.open_dialog, QKeySequence.StandardKey.Open,
-                                  sp.SP_DialogOpenButton)
-        self.demo_action = action("Open demo day", self.open_demo)
-        self.save_action = action("Save", self.save, QKeySequence.StandardKey.Save,
-                                  sp.SP_DialogSaveButton)
-        self.save_as_action = action("Save as…", self.save_as, QKeySequence.StandardKey.SaveAs)
-        self.export_json_action = action("Export plan JSON…", self.export_json)
-        self.export_pdf_action = (action("Export PDF…", self.export_pdf)
+        self.open_action = make_action(self, "Open…", self.open_dialog,
+                                       shortcut=QKeySequence.StandardKey.Open,
+                                       icon=sp.SP_DialogOpenButton)
+        self.demo_action = make_action(self, "Open demo day", self.open_demo)
+        self.save_action = make_action(self, "Save", self.save,
+                                       shortcut=QKeySequence.StandardKey.Save,
+                                       icon=sp.SP_DialogSaveButton)
+        self.save_as_action = make_action(self, "Save as…", self.save_as,
+                                          shortcut=QKeySequence.StandardKey.SaveAs)
+        self.export_json_action = make_action(self, "Export plan JSON…", self.export_json)
+        self.export_pdf_action = (make_action(self, "Export PDF…", self.export_pdf)
                                   if self.pdf_writer is not None else None)
-        self.export_routes_action = action("Export routes (CSV/XLSX)…", self.export_routes)
-        self.quit_action = action("Quit", window.close, QKeySequence.StandardKey.Quit)
-        self.recent_menu = QMenu("Open recent", window)
+        self.export_routes_action = make_action(self, "Export routes (CSV/XLSX)…",
+                                                self.export_routes)
+        self.quit_action = make_action(self, "Quit", self.quit_requested.emit,
+                                       shortcut=QKeySequence.StandardKey.Quit)
+        self.recent_menu = QMenu("Open recent", parent)
         self.recent_menu.aboutToShow.connect(self._fill_recent)
 
     def export_actions(self) -> list[QAction]:
@@ -97,9 +114,11 @@ class FileActions(QObject):
                 menu.addAction(a)
 
     def update_actions(self) -> None:
-        current = self.window.plan is not None and self.window.plan_is_current
+        """Exports only for a current plan, one at a time."""
+        plan = self.current_plan()
+        ok = plan is not None and not self.exports.busy
         for a in self.export_actions():
-            a.setEnabled(current)
+            a.setEnabled(ok)
 
     def _fill_recent(self) -> None:
         self.recent_menu.clear()
@@ -117,7 +136,7 @@ class FileActions(QObject):
 
     # ------------------------------------------------------------ opening
     def open_dialog(self) -> None:
-        paths, _ = QFileDialog.getOpenFileNames(self.window, "Open a day", self._directory(),
+        paths, _ = QFileDialog.getOpenFileNames(self.dialog_parent, "Open a day", self._directory(),
                                                 OPEN_FILTER)
         if paths:
             self.open_paths(paths)
@@ -180,25 +199,25 @@ class FileActions(QObject):
         return True
 
     def _finish_open(self, document, path: Path) -> None:
-        self.window.load_document(document)
+        self.opened.emit(document, path)
         if path.suffix.lower() == ".shipgui":
             self.settings.add_recent_file(path)
         self._remember(path)
         attached = [k for k in ("sites", "travel") if k in document.sources]
         note = f" with {' and '.join(attached)} files" if attached else ""
-        self.window.statusBar().showMessage(f"Opened {path.name}{note}", 6000)
+        self.message.emit(f"Opened {path.name}{note}", 6000)
 
     def show_problems(self, heading: str, problems: list[Problem]) -> ProblemsDialog:
         """Show problems in a window that does not block (the day stays as it was)."""
         if self.problem_dialog is not None:
             self.problem_dialog.close()
-        self.problem_dialog = ProblemsDialog(heading, problems, self.window)
+        self.problem_dialog = ProblemsDialog(heading, problems, self.dialog_parent)
         self.problem_dialog.show()
         return self.problem_dialog
 
     # ------------------------------------------------------------ companions
     def attach_companion(self, kind: str) -> None:
-        path, _ = QFileDialog.getOpenFileName(self.window, f"Attach a {kind} file",
+        path, _ = QFileDialog.getOpenFileName(self.dialog_parent, f"Attach a {kind} file",
                                               self._directory(), "CSV files (*.csv)")
         if path:
             self.attach_file(kind, Path(path))
@@ -212,26 +231,26 @@ class FileActions(QObject):
                                list(exc.problems))
             return False
         command = AttachSites if kind == "sites" else AttachTravel
-        self.window.undo_stack.push(command(self.window.document, value, str(path)))
+        self.undo_stack.push(command(self.document, value, str(path)))
         self._remember(path)
         return True
 
     def remove_companion(self, kind: str) -> None:
         command = AttachSites if kind == "sites" else AttachTravel
-        self.window.undo_stack.push(command(self.window.document,
+        self.undo_stack.push(command(self.document,
                                             [] if kind == "sites" else {}, None))
 
     # ------------------------------------------------------------ saving
     def save(self) -> bool:
-        path = self.window.document.path
+        path = self.document.path
         if path is None:
             return self.save_as()
         return self._save_to(path)
 
     def save_as(self) -> bool:
-        doc = self.window.document
+        doc = self.document
         suggestion = Path(self._directory()) / (Path(doc.title).stem + PLAN_SUFFIX)
-        path, _ = QFileDialog.getSaveFileName(self.window, "Save the day", str(suggestion),
+        path, _ = QFileDialog.getSaveFileName(self.dialog_parent, "Save the day", str(suggestion),
                                               PLAN_FILTER)
         if not path:
             return False
@@ -241,29 +260,28 @@ class FileActions(QObject):
         return self._save_to(path)
 
     def _save_to(self, path: Path) -> bool:
-        doc = self.window.document
         try:
-            doc.save(path)
+            self.document.save(path)
         except OSError as exc:
-            QMessageBox.warning(self.window, "Not saved", str(exc))
+            QMessageBox.warning(self.dialog_parent, "Not saved",
+                                f"{path.name} was not saved: {os_error_text(exc)}.")
             return False
-        doc.path = path
-        self.window.undo_stack.setClean()
-        self.window.autosaver.discard()  # also when the stack was clean already (recovered)
-        self.window.update_title()
+        self.document.path = path
+        self.undo_stack.setClean()
         self.settings.add_recent_file(path)
         self._remember(path)
-        self.window.statusBar().showMessage(f"Saved {path.name}", 5000)
+        self.saved.emit(path)
+        self.message.emit(f"Saved {path.name}", 5000)
         return True
 
     def maybe_save(self) -> bool:
         """Ask about unsaved changes; False means the user chose to stay."""
-        if self.window.undo_stack.isClean():
+        if self.undo_stack.isClean():
             return True
         buttons = QMessageBox.StandardButton
         answer = QMessageBox.question(
-            self.window, "Unsaved changes",
-            f"{self.window.document.title} has changes that are not saved. Save them?",
+            self.dialog_parent, "Unsaved changes",
+            f"{self.document.title} has changes that are not saved. Save them?",
             buttons.Save | buttons.Discard | buttons.Cancel, buttons.Save)
         if answer == buttons.Save:
             return self.save()
@@ -271,8 +289,8 @@ class FileActions(QObject):
 
     # ------------------------------------------------------------ export
     def _export_path(self, title: str, suffix: str, pattern: str) -> Path | None:
-        stem = Path(self.window.document.title).stem
-        path, _ = QFileDialog.getSaveFileName(self.window, title,
+        stem = Path(self.document.title).stem
+        path, _ = QFileDialog.getSaveFileName(self.dialog_parent, title,
                                               str(Path(self._directory()) / f"{stem}{suffix}"),
                                               pattern)
         if not path:
@@ -280,63 +298,74 @@ class FileActions(QObject):
         path = Path(path)
         return path if path.suffix.lower() == suffix else path.with_name(path.name + suffix)
 
-    def _current_plan(self) -> Plan | None:
-        """The plan on screen, only when it matches the inputs (never a stale one)."""
-        plan = self.window.plan
-        return plan if plan is not None and self.window.plan_is_current else None
+    def _plan_to_export(self) -> Plan | None:
+        """The plan on screen if it matches the inputs and passed its independent check;
+        a plan that failed the check is refused, as the command line and the PDF do."""
+        plan = self.current_plan()
+        if plan is None or self.exports.busy:
+            return None
+        if not plan.verified:
+            QMessageBox.warning(
+                self.dialog_parent, "Not exported",
+                "This plan did not pass its independent check, so it is not exported: "
+                "it could be wrong. Please report this with the day's files.")
+            return None
+        return plan
 
-    def _write_export(self, path: Path, write: Callable[[Path], None],
-                      errors: tuple[type[BaseException], ...] = (OSError,),
-                      reason: str = "{exc}") -> bool:
-        """Write one export; a failure is shown to the user, never raised."""
-        try:
-            write(path)
-        except errors as exc:
-            QMessageBox.warning(self.window, "Not exported", reason.format(exc=exc))
-            return False
-        self.window.statusBar().showMessage(f"Exported {path.name}", 5000)
-        return True
+    def _export_failed(self, what: str, reason: str) -> None:
+        QMessageBox.warning(self.dialog_parent, "Not exported",
+                            f"{what[0].upper()}{what[1:]} was not written: {reason}.")
+
+    def _names(self, plan: Plan) -> dict[int, str]:
+        return dict(self.document.driver_names)
 
     def export_json(self) -> bool:
-        plan = self._current_plan()
+        """Write the plan as JSON in the background; True when the export started."""
+        plan = self._plan_to_export()
         if plan is None:
             return False
         path = self._export_path("Export the plan as JSON", ".json", "JSON (*.json)")
         if path is None:
             return False
-        names = self.window.document.driver_names
-        return self._write_export(path, lambda p: write_bytes_atomic(
-            p, plan_to_json(plan, driver_names=names).encode("utf-8")))
+        names = self._names(plan)
+
+        def write(_progress, _cancelled) -> None:
+            write_bytes_atomic(path, plan_to_json(plan, driver_names=names).encode("utf-8"))
+        return self.exports.start(f"the plan JSON {path.name}", path, write)
 
     def export_routes(self) -> bool:
-        """One row per job with vehicle and sequence, for a spreadsheet."""
-        plan = self._current_plan()
+        """One row per job with vehicle and sequence, for a spreadsheet (background)."""
+        plan = self._plan_to_export()
         if plan is None:
             return False
-        stem = Path(self.window.document.title).stem
+        stem = Path(self.document.title).stem
         path, chosen = QFileDialog.getSaveFileName(
-            self.window, "Export routes for a spreadsheet",
+            self.dialog_parent, "Export routes for a spreadsheet",
             str(Path(self._directory()) / f"{stem}-routes.csv"), ";;".join(ROUTES_FILTERS))
         if not path:
             return False
         path = Path(path)
         if path.suffix.lower() not in (".csv", ".xlsx"):
             path = path.with_name(path.name + ROUTES_FILTERS.get(chosen, ".csv"))
-        names = dict(self.window.document.driver_names)
-        return self._write_export(path, lambda p: write_routes(plan, p, names))
+        names = self._names(plan)
+        return self.exports.start(f"the routes {path.name}", path,
+                                  lambda _progress, _cancelled: write_routes(plan, path, names))
 
     def export_pdf(self) -> bool:
-        plan = self._current_plan()
-        if self.pdf_writer is None or plan is None:
+        """Driver sheets and proof as PDF, in the background with progress and cancel."""
+        if self.pdf_writer is None:
+            return False
+        plan = self._plan_to_export()
+        if plan is None:
             return False
         path = self._export_path("Export route sheets as PDF", ".pdf", "PDF (*.pdf)")
         if path is None:
             return False
-        names = dict(self.window.document.driver_names)
-        # Any failure of the writer is shown to the user, not raised.
-        return self._write_export(path, lambda p: self.pdf_writer(plan, p, driver_names=names),
-                                  errors=(Exception,),
-                                  reason="The PDF could not be written: {exc}")
+        names, writer = self._names(plan), self.pdf_writer
+        return self.exports.start(
+            f"the PDF {path.name}", path,
+            lambda progress, _cancelled: writer(plan, path, driver_names=names,
+                                                progress=progress))
 
     # ------------------------------------------------------------ drag and drop
     @staticmethod

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from PySide6.QtCore import Qt, Signal
-from PySide6.QtGui import QAction, QCloseEvent, QKeySequence, QUndoStack
+from PySide6.QtGui import QCloseEvent, QKeySequence, QUndoStack
 from PySide6.QtWidgets import (
     QInputDialog,
     QLabel,
@@ -21,11 +21,13 @@ from shipgui.core import Job, Plan, Problem
 from shipgui.core.caution import CAUTION
 from shipgui.core.document import Change, DayDocument
 
+from .actions import make_action
 from .file_actions import FileActions
 from .models.commands import AddJob, ChangeSettings, DeleteJobs, RenameDriver
 from .models.jobs_model import Column, JobsModel
 from .panels.answer_bar import AnswerBar
 from .panels.certificate_panel import CertificatePanel
+from .panels.export_progress import ExportProgress
 from .panels.inputs_panel import InputsPanel
 from .panels.jobs_panel import JobsPanel
 from .panels.problems import ProblemList
@@ -55,7 +57,8 @@ class MainWindow(QMainWindow):
         self.solver = SolveController(self, delay_ms=solve_delay_ms)
         self._make_actions()
         self.jobs_model = JobsModel(self.document, self.undo_stack, self)
-        self.files = FileActions(self)
+        self.files = FileActions(self.document, self.undo_stack, self.settings,
+                                 self.current_plan, self)
         self.autosaver = Autosaver(self.document, lambda: not self.undo_stack.isClean(),
                                    self.settings.data_directory(), self)
         self._make_panels()
@@ -68,17 +71,9 @@ class MainWindow(QMainWindow):
                          "here).")
 
     # ------------------------------------------------------------ construction
-    def _action(self, text: str, slot, shortcut=None, icon=None, tip: str = "") -> QAction:
-        action = QAction(text, self)
-        if shortcut is not None:
-            action.setShortcut(QKeySequence(shortcut))
-        if icon is not None:
-            action.setIcon(self.style().standardIcon(icon))
-        if tip:
-            action.setToolTip(tip)
-            action.setStatusTip(tip)
-        action.triggered.connect(slot)
-        return action
+    def current_plan(self) -> Plan | None:
+        """The plan on screen when it matches the inputs as they are now, else None."""
+        return self.plan if self.plan is not None and self.plan_is_current else None
 
     def _make_actions(self) -> None:
         sp = QStyle.StandardPixmap
@@ -88,28 +83,30 @@ class MainWindow(QMainWindow):
         self.redo_action = self.undo_stack.createRedoAction(self, "Redo")
         self.redo_action.setShortcut(QKeySequence.StandardKey.Redo)
         self.redo_action.setIcon(self.style().standardIcon(sp.SP_ArrowForward))
-        self.add_job_action = self._action("Add job", self.add_job, "Ctrl+J",
-                                           sp.SP_FileDialogNewFolder, "Add a job to the day")
-        self.delete_jobs_action = self._action("Delete", self.delete_selected_jobs,
-                                               QKeySequence.StandardKey.Delete,
-                                               sp.SP_DialogDiscardButton,
-                                               "Delete the selected jobs")
+        self.add_job_action = make_action(self, "Add job", self.add_job, shortcut="Ctrl+J",
+                                          icon=sp.SP_FileDialogNewFolder,
+                                          tip="Add a job to the day")
+        self.delete_jobs_action = make_action(self, "Delete", self.delete_selected_jobs,
+                                              shortcut=QKeySequence.StandardKey.Delete,
+                                              icon=sp.SP_DialogDiscardButton,
+                                              tip="Delete the selected jobs")
         self.delete_jobs_action.setShortcutContext(
             Qt.ShortcutContext.WidgetWithChildrenShortcut)
-        self.cancel_action = self._action("Cancel solving", self.solver.cancel, "Esc",
-                                          sp.SP_BrowserStop, "Stop the solve in progress")
+        self.cancel_action = make_action(self, "Cancel solving", self.solver.cancel,
+                                         shortcut="Esc", icon=sp.SP_BrowserStop,
+                                         tip="Stop the solve in progress")
         self.cancel_action.setEnabled(False)
-        self.proof_action = self._action("Show proof", self.show_proof, "Ctrl+P", None,
-                                         "Highlight the jobs that prove no smaller fleet "
-                                         "exists, and say why")
-        self.proof_action.setCheckable(True)
-        self.zoom_in_action = self._action("Zoom in", lambda: self.timeline.zoom_in(),
-                                           QKeySequence.StandardKey.ZoomIn)
-        self.zoom_out_action = self._action("Zoom out", lambda: self.timeline.zoom_out(),
-                                            QKeySequence.StandardKey.ZoomOut)
-        self.zoom_fit_action = self._action("Whole day", lambda: self.timeline.zoom_to_fit(),
-                                            "Ctrl+0")
-        self.about_action = self._action("About shipgui", self.show_about)
+        self.proof_action = make_action(self, "Show proof", self.show_proof, shortcut="Ctrl+P",
+                                        tip="Highlight the jobs that prove no smaller fleet "
+                                            "exists, and say why", checkable=True)
+        self.zoom_in_action = make_action(self, "Zoom in", lambda: self.timeline.zoom_in(),
+                                          shortcut=QKeySequence.StandardKey.ZoomIn)
+        self.zoom_out_action = make_action(self, "Zoom out", lambda: self.timeline.zoom_out(),
+                                           shortcut=QKeySequence.StandardKey.ZoomOut)
+        self.zoom_fit_action = make_action(self, "Whole day",
+                                           lambda: self.timeline.zoom_to_fit(),
+                                           shortcut="Ctrl+0")
+        self.about_action = make_action(self, "About shipgui", self.show_about)
 
     def _make_panels(self) -> None:
         self.answer = AnswerBar(self.cancel_action)
@@ -162,6 +159,8 @@ class MainWindow(QMainWindow):
         layout.addWidget(self.answer)
         layout.addWidget(split, 1)
         self.setCentralWidget(central)
+        self.export_progress = ExportProgress(self.files.exports)
+        self.statusBar().addPermanentWidget(self.export_progress)
 
     def _make_menus(self) -> None:
         bar = self.menuBar()
@@ -202,6 +201,10 @@ class MainWindow(QMainWindow):
         self.inputs_panel.settings_refused.connect(self._refuse)
         self.inputs_panel.settings_edited.connect(
             lambda s, text: self.undo_stack.push(ChangeSettings(self.document, s, text)))
+        self.files.opened.connect(lambda document, _path: self.load_document(document))
+        self.files.saved.connect(self._on_saved)
+        self.files.message.connect(self.statusBar().showMessage)
+        self.files.quit_requested.connect(self.close)
         self.inputs_panel.attach_requested.connect(self.files.attach_companion)
         self.inputs_panel.remove_requested.connect(self.files.remove_companion)
         self.jobs_panel.job_selected.connect(self.timeline.select_job)
@@ -222,6 +225,10 @@ class MainWindow(QMainWindow):
     def update_title(self) -> None:
         self.setWindowTitle(f"{self.document.title}[*] — shipgui")
         self.setWindowModified(not self.undo_stack.isClean())
+
+    def _on_saved(self, _path) -> None:
+        self.autosaver.discard()  # also when the stack was clean already (recovered)
+        self.update_title()
 
     def load_document(self, document: DayDocument) -> None:
         """Show a freshly opened day in this window (replaces the current one)."""
@@ -413,6 +420,7 @@ class MainWindow(QMainWindow):
             event.ignore()
             return
         self.solver.cancel()
+        self.files.exports.cancel()  # an export cut short writes nothing
         self.autosaver.stop()
         self.settings.set("window/geometry", self.saveGeometry())
         self.settings.sync()

@@ -159,8 +159,8 @@ def test_tanker_example_deadhead():
     # Ahuja, Magnanti & Orlin (1993), Application 6.6 data as in test_solver; fleet 2.
     # The only 2-vehicle plan is 1 -> 4 (empty C->B, 1 day) and 3 -> 2 (empty D->A,
     # 1 day): 2 days of empty travel, computed here, not quoted from the book.
-    from tests.core.test_solver import _tanker
-    plan = solve_day(_tanker(strict=False), least_deadhead=True)
+    from tests.support.days import tanker_day
+    plan = solve_day(tanker_day(strict=False), least_deadhead=True)
     assert plan.vehicles == 2 and plan.verified
     assert plan.deadhead_seconds == 2 * 24 * 3600  # C->B 1 day + D->A 1 day
 

@@ -18,11 +18,10 @@ from pathlib import Path
 import pytest
 
 from shipgui.core.document import DayDocument
-
-from .kill_saver import plan_bytes
+from tests.support import kill_saver
+from tests.support.kill_saver import plan_bytes
 
 ROUNDS = int(os.environ.get("SHIPGUI_KILL_ROUNDS", "100"))
-HERE = Path(__file__).resolve().parent
 
 pytestmark = pytest.mark.skipif(not hasattr(os, "fork"), reason="needs fork and SIGKILL")
 
@@ -38,7 +37,7 @@ def test_killed_save_leaves_old_or_new_plan(mode, tmp_path):
     old, new = plan_bytes(mode)
     path = tmp_path / "day.shipgui"
     path.write_bytes(old)
-    child = subprocess.Popen([sys.executable, str(HERE / "kill_saver.py"), mode, str(path)],
+    child = subprocess.Popen([sys.executable, kill_saver.__file__, mode, str(path)],
                              stdin=subprocess.PIPE, stdout=subprocess.PIPE, text=True)
     rng = random.Random(20261202)
     seen = {old: 0, new: 0}

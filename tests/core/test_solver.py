@@ -6,10 +6,10 @@ import networkx as nx
 import numpy as np
 import pytest
 
-from shipgui.core import Job, Settings, build_day, can_follow_matrix, check_plan, solve_day
+from shipgui.core import Job, build_day, can_follow_matrix, check_plan, solve_day
 from shipgui.core.fleet.matching import available_kernels, maximum_matching
 from shipgui.core.fleet.precedence import prefix_index_from_matrix
-from tests.support.days import random_day
+from tests.support.days import random_day, slot_day, tanker_day
 
 KERNELS = available_kernels()
 
@@ -54,20 +54,12 @@ def test_certificate_is_a_maximum_antichain_by_brute_force(seed):
     assert not any(m[a, b] or m[b, a] for a, b in itertools.combinations(cert, 2))
 
 
-def _day(slots, *, turnaround=0, travel=None, sites=("A",), strict=False):
-    jobs = [Job(f"J{k}", o, d, s, e) for k, (o, d, s, e) in enumerate(slots)]
-    pairs = {(a, b): (v, 0) for (a, b), v in (travel or {}).items()}
-    for a, b in itertools.permutations(sites, 2):
-        pairs.setdefault((a, b), (0, 0))
-    return build_day(jobs, [], pairs, settings=Settings(turnaround=turnaround))
-
-
 def test_interval_partitioning_worked_instance():
     # Zero travel: fleet = maximum number of overlapping slots (interval
     # partitioning; Kleinberg & Tardos, Algorithm Design, 2005, section 4.1).
     hours = [(13, 15), (17, 22), (12, 17), (9, 10), (12, 15), (9, 11), (11, 14), (10, 15),
              (16, 19), (12, 14), (18, 23), (8, 11)]
-    day = _day([("A", "A", a * 3600, b * 3600) for a, b in hours])
+    day = slot_day([("A", "A", a * 3600, b * 3600) for a, b in hours])
     plan = solve_day(day)
     assert plan.verified and plan.vehicles == 6
 
@@ -78,37 +70,18 @@ def test_zero_travel_equals_max_overlap(seed):
     n = int(rng.integers(1, 40))
     starts = rng.integers(0, 100, n)
     ends = starts + rng.integers(1, 30, n)
-    day = _day([("A", "A", int(s) * 60, int(e) * 60) for s, e in zip(starts, ends)])
+    day = slot_day([("A", "A", int(s) * 60, int(e) * 60) for s, e in zip(starts, ends)])
     events = sorted([(int(e), -1) for e in ends] + [(int(s), 1) for s in starts])
     depth = max(itertools.accumulate(d for _, d in events))  # ends before starts at ties
     assert solve_day(day).vehicles == depth
 
 
-def _tanker(strict: bool):
-    # Tanker scheduling, Ahuja, Magnanti & Orlin, Network Flows (1993),
-    # Application 6.6, as transcribed in course material: shipments
-    # 1 A->C day 3, 2 A->C day 8, 3 B->D day 3, 4 B->C day 6; loaded times
-    # A->C 3, A->D 2, B->C 2, B->D 3; empty C->A 2, C->B 1, D->A 1, D->B 2.
-    # The fleet sizes below were computed from these data, not quoted.
-    day_s = 24 * 3600
-    loaded = {("A", "C"): 3, ("A", "D"): 2, ("B", "C"): 2, ("B", "D"): 3}
-    empty = {("C", "A"): 2, ("C", "B"): 1, ("D", "A"): 1, ("D", "B"): 2}
-    travel = {k: v * day_s for k, v in {**loaded, **empty}.items()}
-    for a, b in itertools.permutations("ABCD", 2):
-        travel.setdefault((a, b), 30 * day_s)  # no direct road given: effectively none
-    shipments = [("A", "C", 3), ("A", "C", 8), ("B", "D", 3), ("B", "C", 6)]
-    # The day of a shipment is its delivery date, so it leaves loaded[o, d] days before.
-    # A strict rule ("arrive before the next departure") is a 1-second turnaround.
-    slots = [(o, d, (t - loaded[(o, d)]) * day_s, t * day_s) for o, d, t in shipments]
-    return _day(slots, travel=travel, sites="ABCD", turnaround=1 if strict else 0)
-
-
 def test_tanker_example_no_earlier_than():
-    assert solve_day(_tanker(strict=False)).vehicles == 2
+    assert solve_day(tanker_day(strict=False)).vehicles == 2
 
 
 def test_tanker_example_strict_rule_needs_three():
-    assert solve_day(_tanker(strict=True)).vehicles == 3
+    assert solve_day(tanker_day(strict=True)).vehicles == 3
 
 
 @pytest.mark.parametrize("kernel", KERNELS)
@@ -141,7 +114,7 @@ def test_vehicle_classes_never_mix():
     jobs = [Job("J0", "A", "A", 0, 3600, "van"), Job("J1", "A", "A", 7200, 9000, "truck")]
     day = build_day(jobs, [], {})
     assert solve_day(day).vehicles == 2
-    assert solve_day(_day(slots)).vehicles == 1
+    assert solve_day(slot_day(slots)).vehicles == 1
 
 
 def test_deterministic_routes():

@@ -7,12 +7,10 @@ from __future__ import annotations
 import pytest
 from PySide6.QtCore import QThreadPool
 
-from shipgui.core.document import DayDocument
 from shipgui.gui.main_window import MainWindow
 from shipgui.gui.services.settings import AppSettings
-from tests.support.documents import small_document  # noqa: F401 - used by the tests here
-
-WAIT_MS = 20_000
+from tests.support.documents import small_document
+from tests.support.gui import WAIT_MS, load_and_wait
 
 
 @pytest.fixture
@@ -31,12 +29,6 @@ def window(qtbot, app_settings):
     w.undo_stack.setClean()
     w.close()
     w.deleteLater()
-
-
-def load_and_wait(qtbot, window: MainWindow, document: DayDocument):
-    with qtbot.waitSignal(window.plan_shown, timeout=WAIT_MS) as blocker:
-        window.load_document(document)
-    return blocker.args[0]
 
 
 @pytest.fixture

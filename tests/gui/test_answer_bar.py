@@ -12,8 +12,8 @@ from shipgui.core import solve_day
 from shipgui.core.clock import format_duration
 from shipgui.gui.panels.answer_bar import saving_text, tradeoff_html, tradeoff_rows
 from shipgui.gui.services import worker
-
-from .conftest import load_and_wait, small_document
+from tests.support.documents import small_document
+from tests.support.gui import load_and_wait
 
 
 def _minutes(seconds: int) -> int:

@@ -18,8 +18,8 @@ from shipgui.gui.app import open_window
 from shipgui.gui.main_window import MainWindow
 from shipgui.gui.models.commands import DeleteJobs
 from shipgui.gui.services.autosave import AUTOSAVE_MS, find_recoveries
-
-from .conftest import WAIT_MS, load_and_wait, small_document
+from tests.support.documents import small_document
+from tests.support.gui import WAIT_MS, load_and_wait, wait_for_export
 
 ROOT = Path(__file__).resolve().parents[2]
 Yes, Discard, Cancel = (QMessageBox.StandardButton.Yes, QMessageBox.StandardButton.Discard,
@@ -137,7 +137,7 @@ def test_export_routes_action_writes_neutralised_csv(qtbot, small_window, tmp_pa
     monkeypatch.setattr(QFileDialog, "getSaveFileName",
                         lambda *a, **k: (str(target), "CSV for spreadsheets (*.csv)"))
     assert small_window.files.export_routes_action in small_window.files.export_actions()
-    assert small_window.files.export_routes()
+    wait_for_export(qtbot, small_window, small_window.files.export_routes)
     rows = list(csv.DictReader(open(tmp_path / "routes.csv", encoding="utf-8-sig")))
     assert len(rows) == 4 and {r["customer"] for r in rows} >= {"'=1+1"}
 

@@ -17,8 +17,7 @@ from shipgui.gui.panels.certificate_panel import (
     certificate_summary,
     explain_pair,
 )
-
-from .conftest import small_document
+from tests.support.documents import small_document
 
 
 def test_summary_sentence():

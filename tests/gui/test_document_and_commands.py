@@ -18,8 +18,7 @@ from shipgui.gui.models.commands import (
     EditJobField,
     RenameDriver,
 )
-
-from .conftest import small_document
+from tests.support.documents import small_document
 
 
 def test_document_builds_a_valid_day():

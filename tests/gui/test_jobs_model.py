@@ -10,8 +10,7 @@ from PySide6.QtTest import QAbstractItemModelTester
 from shipgui.core import Job, solve_day
 from shipgui.gui.models.commands import AddJob, DeleteJobs
 from shipgui.gui.models.jobs_model import Column, JobRole, JobsFilterModel, JobsModel, check_field
-
-from .conftest import small_document
+from tests.support.documents import small_document
 
 FATAL = QAbstractItemModelTester.FailureReportingMode.Fatal
 

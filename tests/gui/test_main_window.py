@@ -15,8 +15,8 @@ from shipgui.core.demo import demo_files
 from shipgui.gui import file_actions
 from shipgui.gui.main_window import CAUTION, MainWindow
 from shipgui.gui.models.jobs_model import Column
-
-from .conftest import WAIT_MS, load_and_wait, small_document
+from tests.support.documents import small_document
+from tests.support.gui import WAIT_MS, load_and_wait, wait_for_export
 
 
 def _edit(qtbot, window, row: int, column: Column, text: str) -> bool:
@@ -214,7 +214,7 @@ def test_export_plan_json(qtbot, small_window, tmp_path, monkeypatch):
     w = small_window
     monkeypatch.setattr(QFileDialog, "getSaveFileName",
                         lambda *a, **k: (str(tmp_path / "out"), ""))
-    assert w.files.export_json()
+    wait_for_export(qtbot, w, w.files.export_json)
     data = json.loads((tmp_path / "out.json").read_text())
     assert {"vehicles", "routes", "certificate", "verified"} <= set(data)
     assert data["vehicles"] == 2 and data["verified"] is True
@@ -229,7 +229,7 @@ def test_pdf_action_only_when_the_writer_exists(qtbot, app_settings, tmp_path, m
 
     written = []
 
-    def fake_writer(plan, path, driver_names=None):
+    def fake_writer(plan, path, driver_names=None, progress=None):
         written.append((plan.vehicles, Path(path).name, driver_names))
 
     monkeypatch.setattr(file_actions, "find_pdf_writer", lambda: fake_writer)
@@ -239,7 +239,7 @@ def test_pdf_action_only_when_the_writer_exists(qtbot, app_settings, tmp_path, m
     qtbot.addWidget(with_pdf)
     assert "Export PDF…" in [a.text() for a in with_pdf.toolbar.actions()]
     load_and_wait(qtbot, with_pdf, small_document())
-    with_pdf.files.export_pdf_action.trigger()
+    wait_for_export(qtbot, with_pdf, with_pdf.files.export_pdf)
     assert written == [(2, "sheets.pdf", {})]
     with_pdf.undo_stack.setClean()
 
@@ -306,7 +306,7 @@ def test_export_pdf_with_the_real_writer(qtbot, small_window, tmp_path, monkeypa
     w = small_window
     monkeypatch.setattr(QFileDialog, "getSaveFileName",
                         lambda *a, **k: (str(tmp_path / "sheets.pdf"), ""))
-    w.files.export_pdf_action.trigger()
+    wait_for_export(qtbot, w, w.files.export_pdf)
     text = "".join(p.extract_text() for p in PdfReader(tmp_path / "sheets.pdf").pages)
     assert "Vehicle 2" in text and "J4" in text and "local law" in text
 

@@ -10,8 +10,7 @@ from PySide6.QtWidgets import QGraphicsRectItem
 from shipgui.core import Settings, solve_day
 from shipgui.core.demo import load_demo
 from shipgui.gui.panels.timeline import COLOURS, JobBar, TimelineView
-
-from .conftest import small_document
+from tests.support.documents import small_document
 
 
 @pytest.fixture(scope="module")

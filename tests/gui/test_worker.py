@@ -10,8 +10,8 @@ from PySide6.QtCore import QThreadPool
 from shipgui.core import Job
 from shipgui.gui.services.worker import SolveController, SolveWorker, snapshot
 from tests.support.days import regional_day
-
-from .conftest import WAIT_MS, small_document
+from tests.support.documents import small_document
+from tests.support.gui import WAIT_MS
 
 
 def test_worker_reports_a_plan(qtbot):

@@ -7,7 +7,7 @@ import pytest
 from shipgui.core import solve_day
 from shipgui.core.demo import load_demo
 from shipgui.report import build_pdf_bytes
-from tests.report.pdf_helpers import page_texts
+from tests.support.pdf import page_texts
 
 
 @pytest.fixture(scope="session")

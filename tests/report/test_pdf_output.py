@@ -13,7 +13,7 @@ import pytest
 
 from shipgui.core import PlanNotVerified, solve_day
 from shipgui.report import build_pdf_bytes, write_plan_pdf
-from tests.report.pdf_helpers import small_day
+from tests.support.pdf import small_day
 
 
 @pytest.fixture(scope="module")
@@ -89,7 +89,7 @@ def test_same_bytes_in_separate_processes(plan):
     root = Path(__file__).resolve().parents[2]
     code = ("import sys, hashlib; sys.path.insert(0, sys.argv[1]); "
             "from shipgui.core import solve_day; from shipgui.report import build_pdf_bytes; "
-            "from tests.report.pdf_helpers import small_day; "
+            "from tests.support.pdf import small_day; "
             "print(hashlib.sha256(build_pdf_bytes(solve_day(small_day()))).hexdigest())")
     digests = set()
     for seed in ("1", "2"):

@@ -16,7 +16,7 @@ from shipgui.core.fleet.schedule import vehicle_days
 from shipgui.core.model import Job, Site
 from shipgui.report import PrintLayoutError, build_pdf_bytes
 from shipgui.report import text as report_text
-from tests.report.pdf_helpers import HOUR, MIN, make_day, page_texts, sections, small_day
+from tests.support.pdf import HOUR, MIN, make_day, page_texts, sections, small_day
 
 
 def _flat(text: str) -> str:

@@ -7,7 +7,8 @@ import pytest
 from shipgui.core import Settings, solve_day
 from shipgui.core.model import Job
 from shipgui.report import CAUTION, build_pdf_bytes, build_route_sheet
-from tests.report.pdf_helpers import (
+from tests.support.days import regional_day
+from tests.support.pdf import (
     HOUR,
     MIN,
     classify,
@@ -18,7 +19,6 @@ from tests.report.pdf_helpers import (
     small_day,
     two_site_travel,
 )
-from tests.support.days import regional_day
 
 
 def _check_layout(plan, texts):

@@ -10,7 +10,7 @@ from hypothesis import strategies as st
 from shipgui.core import Settings, solve_day
 from shipgui.core.model import Job, Site
 from shipgui.report import build_pdf_bytes
-from tests.report.pdf_helpers import HOUR, ids_in, make_day, page_texts, sections
+from tests.support.pdf import HOUR, ids_in, make_day, page_texts, sections
 
 NAMES = ["Ζωή Παπαδοπούλου", "Пётр Иванов", "Łódź Ściółka", "Ågot Ærøskøbing-Nuñez"]
 

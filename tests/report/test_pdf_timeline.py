@@ -6,7 +6,7 @@ from reportlab.graphics.shapes import Line, Rect, String
 
 from shipgui.core import solve_day
 from shipgui.report.timeline import MIN_ROWS_PER_PART, ROW_HEIGHT, Timeline, timeline_rows
-from tests.report.pdf_helpers import small_day
+from tests.support.pdf import small_day
 
 
 def _shapes(drawing, kind):

@@ -14,7 +14,7 @@ from shipgui.core.demo import load_demo
 from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN as EXTRA_VEHICLES_SHOWN
 from shipgui.core.model import Job
 from shipgui.report import build_pdf_bytes
-from tests.report.pdf_helpers import HOUR, make_day, page_texts, small_day, two_site_travel
+from tests.support.pdf import HOUR, make_day, page_texts, small_day, two_site_travel
 
 HEADING = "What more vehicles would save"
 EXACT = "Exactly this many out"

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import itertools
+
 import numpy as np
 
 from shipgui.core.day import build_day
@@ -42,3 +44,30 @@ def regional_day(n: int, sites: int, *, seed: int = 0, turnaround_min: int = 10)
     jobs = [Job(f"J{k:05d}", f"S{o[k]}", f"S{d[k]}", int(start[k]), int(end[k]))
             for k in range(n)]
     return build_day(jobs, site_list, {}, settings=settings)
+
+
+def slot_day(slots, *, turnaround=0, travel=None, sites=("A",)):
+    """A day from (origin, destination, start, end) slots in seconds; travel in
+    seconds per (from, to), 0 for pairs not given."""
+    jobs = [Job(f"J{k}", o, d, s, e) for k, (o, d, s, e) in enumerate(slots)]
+    pairs = {(a, b): (v, 0) for (a, b), v in (travel or {}).items()}
+    for a, b in itertools.permutations(sites, 2):
+        pairs.setdefault((a, b), (0, 0))
+    return build_day(jobs, [], pairs, settings=Settings(turnaround=turnaround))
+
+
+def tanker_day(strict: bool):
+    """Tanker scheduling, Ahuja, Magnanti & Orlin, Network Flows (1993), Application
+    6.6: shipments 1 A->C day 3, 2 A->C day 8, 3 B->D day 3, 4 B->C day 6; loaded
+    times A->C 3, A->D 2, B->C 2, B->D 3; empty C->A 2, C->B 1, D->A 1, D->B 2 (days).
+    A strict rule ("arrive before the next departure") is a 1-second turnaround."""
+    day_s = 24 * 3600
+    loaded = {("A", "C"): 3, ("A", "D"): 2, ("B", "C"): 2, ("B", "D"): 3}
+    empty = {("C", "A"): 2, ("C", "B"): 1, ("D", "A"): 1, ("D", "B"): 2}
+    travel = {k: v * day_s for k, v in {**loaded, **empty}.items()}
+    for a, b in itertools.permutations("ABCD", 2):
+        travel.setdefault((a, b), 30 * day_s)  # no direct road given: effectively none
+    shipments = [("A", "C", 3), ("A", "C", 8), ("B", "D", 3), ("B", "C", 6)]
+    # The day of a shipment is its delivery date, so it leaves loaded[o, d] days before.
+    slots = [(o, d, (t - loaded[(o, d)]) * day_s, t * day_s) for o, d, t in shipments]
+    return slot_day(slots, travel=travel, sites="ABCD", turnaround=1 if strict else 0)
