@@ -32,7 +32,6 @@ _REASONS = {
 
 
 def os_error_text(exc: OSError) -> str:
-    """Why writing failed, e.g. 'the disk is full (/home/ann/day.pdf)'."""
-    reason = _REASONS.get(exc.errno or 0) or exc.strerror or str(exc) or "unknown reason"
-    where = exc.filename
-    return f"{reason} ({where})" if where else reason
+    """Why writing failed, e.g. 'the disk is full' (callers name the file: the
+    system's own file name may be a temporary one)."""
+    return _REASONS.get(exc.errno or 0) or exc.strerror or str(exc) or "an unknown reason"

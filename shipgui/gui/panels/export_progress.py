@@ -2,7 +2,14 @@
 
 from __future__ import annotations
 
-from PySide6.QtWidgets import QHBoxLayout, QLabel, QProgressBar, QPushButton, QWidget
+from PySide6.QtWidgets import (
+    QHBoxLayout,
+    QLabel,
+    QProgressBar,
+    QPushButton,
+    QSizePolicy,
+    QWidget,
+)
 
 from ..services.exports import ExportController
 
@@ -23,6 +30,7 @@ class ExportProgress(QWidget):
         self.cancel = QPushButton("Cancel")
         self.cancel.setToolTip("Stop writing; no file is written")
         self.cancel.clicked.connect(self._cancel)
+        self.setSizePolicy(QSizePolicy.Policy.Maximum, QSizePolicy.Policy.Preferred)
         layout = QHBoxLayout(self)
         layout.setContentsMargins(0, 0, 6, 0)
         layout.addWidget(self.label)
