@@ -8,7 +8,9 @@ from PySide6.QtCore import QObject
 from PySide6.QtGui import QAction, QIcon, QKeySequence
 from PySide6.QtWidgets import QApplication, QStyle
 
-__all__ = ["make_action"]
+from shipgui.resources import resource_path
+
+__all__ = ["make_action", "themed_icon"]
 
 Shortcut = str | QKeySequence | QKeySequence.StandardKey
 
@@ -35,3 +37,9 @@ def make_action(parent: QObject, text: str, slot: Callable | None = None, *,
     if slot is not None:
         action.triggered.connect(slot)
     return action
+
+
+def themed_icon(name: str) -> QIcon:
+    """The desktop theme's icon of this freedesktop name (``edit-undo``), else the one
+    shipped in ``resources/icons/<name>.svg``."""
+    return QIcon.fromTheme(name, QIcon(str(resource_path("icons", f"{name}.svg"))))

@@ -21,7 +21,7 @@ from shipgui.core import Job, Plan, Problem
 from shipgui.core.caution import CAUTION
 from shipgui.core.document import Change, DayDocument
 
-from .actions import make_action
+from .actions import make_action, themed_icon
 from .file_actions import FileActions
 from .models.commands import AddJob, ChangeSettings, DeleteJobs, RenameDriver
 from .models.jobs_model import Column, JobsModel
@@ -77,12 +77,15 @@ class MainWindow(QMainWindow):
 
     def _make_actions(self) -> None:
         sp = QStyle.StandardPixmap
+        # Menus read "Undo Set start of J050 to 06:30"; toolbar buttons just "Undo".
         self.undo_action = self.undo_stack.createUndoAction(self, "Undo")
         self.undo_action.setShortcut(QKeySequence.StandardKey.Undo)
-        self.undo_action.setIcon(self.style().standardIcon(sp.SP_ArrowBack))
+        self.undo_action.setIcon(themed_icon("edit-undo"))
+        self.undo_action.setIconText("Undo")
         self.redo_action = self.undo_stack.createRedoAction(self, "Redo")
         self.redo_action.setShortcut(QKeySequence.StandardKey.Redo)
-        self.redo_action.setIcon(self.style().standardIcon(sp.SP_ArrowForward))
+        self.redo_action.setIcon(themed_icon("edit-redo"))
+        self.redo_action.setIconText("Redo")
         self.add_job_action = make_action(self, "Add job", self.add_job, shortcut="Ctrl+J",
                                           icon=sp.SP_FileDialogNewFolder,
                                           tip="Add a job to the day")
@@ -186,9 +189,6 @@ class MainWindow(QMainWindow):
                        self.zoom_in_action, self.zoom_out_action, self.zoom_fit_action, None,
                        *self.files.export_actions()):
             tools.addSeparator() if action is None else tools.addAction(action)
-        for action in (self.undo_action, self.redo_action):  # their text grows with the edit
-            tools.widgetForAction(action).setToolButtonStyle(
-                Qt.ToolButtonStyle.ToolButtonIconOnly)
         self.addToolBar(tools)
         self.toolbar = tools
 

@@ -338,3 +338,19 @@ def test_csv_kind_and_companions(tmp_path):
     assert csv_kind(tmp_path / "travel.csv") == "travel"
     assert csv_kind(tmp_path / "other.csv") is None
     assert set(companion_files(tmp_path / "jobs.csv")) == {"sites", "travel"}
+
+
+def test_undo_and_redo_read_as_undo_and_redo_not_as_navigation(qtbot, small_window):
+    from PySide6.QtWidgets import QStyle
+    w = small_window
+    _edit(qtbot, w, 0, Column.NOTES, "ring first")
+    sp = QStyle.StandardPixmap
+    arrows = [w.style().standardIcon(p).pixmap(16).toImage()
+              for p in (sp.SP_ArrowBack, sp.SP_ArrowForward)]
+    for action, word in ((w.undo_action, "Undo"), (w.redo_action, "Redo")):
+        button = w.toolbar.widgetForAction(action)
+        assert button.toolButtonStyle() == Qt.ToolButtonStyle.ToolButtonTextBesideIcon
+        assert button.text() == word  # the toolbar says the word, the menu says what
+        assert not action.icon().isNull()
+        assert action.icon().pixmap(16).toImage() not in arrows
+    assert w.undo_action.text() == "Undo Set notes of J1 to 'ring first'"
