@@ -147,7 +147,6 @@ class Day:
             object.__setattr__(self, name, _frozen(value))
         object.__setattr__(self, "class_names", tuple(classes))
         object.__setattr__(self, "site_index", index)
-        object.__setattr__(self, "job_index", {j.id: k for k, j in enumerate(self.jobs)})
         object.__setattr__(self, "travel", _frozen(np.asarray(self.travel, dtype=np.int64)))
 
     # Declared for type checkers; set in __post_init__.
@@ -158,7 +157,6 @@ class Day:
     vclass: np.ndarray = field(init=False, repr=False)
     class_names: tuple[str, ...] = field(init=False, repr=False)
     site_index: dict[str, int] = field(init=False, repr=False)
-    job_index: dict[str, int] = field(init=False, repr=False)
 
     @property
     def n(self) -> int:

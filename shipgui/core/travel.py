@@ -60,7 +60,8 @@ def estimate_seconds(km: np.ndarray, *, speed_kmh: float, circuity: float) -> np
         raise ValueError("average speed must be a positive number of km/h")
     if not (circuity >= 1 and math.isfinite(circuity)):
         raise ValueError("circuity factor must be at least 1")
-    # Work in integer metres first so the rounding up is not fooled by float noise.
+    # Round to microseconds before rounding up, so float noise (737.9999999 s for
+    # 12.3 min) does not turn into an extra second.
     seconds = np.asarray(km, dtype=float) * circuity / speed_kmh * 3600.0
     return np.ceil(np.round(seconds, 6)).astype(np.int64)
 

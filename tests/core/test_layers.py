@@ -98,5 +98,14 @@ def test_cli_solve_path_does_not_load_qt():
     assert "PySide6" not in loaded
 
 
+def test_the_product_never_loads_networkx():
+    # networkx is the tests' reference; the product uses numpy and scipy only.
+    modules = [".".join(p.relative_to(ROOT).with_suffix("").parts).removesuffix(".__init__")
+               for p in CORE.rglob("*.py")]
+    loaded = _loaded_after("; ".join(f"import {m}" for m in modules)
+                           + "; import shipgui.cli; import shipgui.report")
+    assert "networkx" not in loaded
+
+
 def test_report_does_not_import_qt():
     assert "PySide6" not in _loaded_after("import shipgui.report")

@@ -10,7 +10,7 @@ from PySide6.QtWidgets import QApplication
 
 from shipgui.core import solve_day
 from shipgui.core.clock import format_duration
-from shipgui.gui.panels.answer_bar import saving_text, tradeoff_html, tradeoff_rows
+from shipgui.gui.panels.answer_bar import saving_text, tradeoff_cells, tradeoff_html
 from shipgui.gui.services import worker
 from tests.support.documents import small_document
 from tests.support.gui import load_and_wait
@@ -32,7 +32,7 @@ def test_demo_day_says_least_empty_driving_and_what_one_more_vehicle_saves(demo_
     saved = format_duration((_minutes(least) - _minutes(fewer)) * 60)
     assert f"1 more vehicle: −{saved} empty driving" in bar.saving.text()
     # The list (tooltip and popup): minimum .. minimum + 5, as in plan.tradeoff.
-    rows = tradeoff_rows(plan)
+    rows = tradeoff_cells(plan)
     assert [r[0] for r in rows] == [k for k, _ in plan.tradeoff[:6]]
     assert rows[0][0] == plan.vehicles and len(rows) == min(6, len(plan.tradeoff))
     for (_k, seconds), row in zip(plan.tradeoff, rows):
@@ -61,7 +61,7 @@ def test_exactly_k_is_listed_only_where_it_differs(demo_window):
     v, d = plan.vehicles, plan.deadhead_seconds
     bumped = dataclasses.replace(plan, tradeoff=((v, d), (v + 1, d - 600), (v + 2, d - 600)),
                                  tradeoff_exact=((v, d), (v + 1, d - 600), (v + 2, d + 900)))
-    rows = tradeoff_rows(bumped)
+    rows = tradeoff_cells(bumped)
     assert [r[3] for r in rows] == ["", "", format_duration(d + 900)]
     assert "Exactly this many out" in tradeoff_html(bumped)
     assert "Exactly this many out" not in tradeoff_html(

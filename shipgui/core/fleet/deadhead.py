@@ -13,7 +13,9 @@ from ..model import Day, Plan
 __all__ = ["RouteLegs", "route_legs", "plan_deadhead", "TradeoffRow", "tradeoff_rows",
            "TRADEOFF_SHOWN"]
 
-# Screens and sheets list the minimum fleet and up to this many vehicles more.
+# The one trade-off depth: a solve prices this many vehicles beyond the minimum
+# by default (solve_day, the command line's --tradeoff), and screens and sheets
+# list the minimum fleet and up to this many more.
 TRADEOFF_SHOWN = 5
 
 

@@ -55,11 +55,6 @@ class PrefixIndex:
         """(m,) destination group of every position."""
         return np.repeat(np.arange(len(self.group_site)), np.diff(self.group_start))
 
-    def edge_count(self) -> int:
-        """Number of pairs (i, j) with j able to follow i (computed, not stored)."""
-        lat = self.latest.astype(np.int64)
-        return int(np.where(lat >= 0, lat - self.group_start[None, :-1] + 1, 0).sum())
-
 
 def prefix_index(day: Day, jobs: np.ndarray) -> PrefixIndex:
     """Build the prefix form of the relation among ``jobs`` (global indices, one class).

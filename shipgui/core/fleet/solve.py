@@ -14,7 +14,7 @@ from collections.abc import Callable
 import numpy as np
 
 from ..model import Day, Plan
-from .deadhead import plan_deadhead
+from .deadhead import TRADEOFF_SHOWN, plan_deadhead
 from .least_deadhead import class_costs, least_cost_links
 from .matching import default_kernel, maximum_matching
 from .precedence import class_indexes
@@ -28,7 +28,7 @@ class Cancelled(Exception):
 
 
 def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = True,
-              tradeoff: int = 5,
+              tradeoff: int = TRADEOFF_SHOWN,
               progress: Callable[[str], None] | None = None,
               cancelled: Callable[[], bool] | None = None) -> Plan:
     """Minimum fleet, routes and certificate for ``day``, independently verified.

@@ -59,9 +59,6 @@ class Table:
     def has(self, column: str) -> bool:
         return column in self.columns
 
-    def index(self, column: str) -> int:
-        return self.columns.index(column)
-
 
 def parse_delimiter(text: str) -> str:
     """A delimiter as a user may name it (``;``, ``semicolon``, ``tab`` ...).

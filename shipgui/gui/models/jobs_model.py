@@ -121,9 +121,6 @@ class JobsModel(QAbstractTableModel):
     def document(self) -> DayDocument:
         return self._document
 
-    def detach(self) -> None:
-        self._document.unsubscribe(self._on_change)
-
     # ------------------------------------------------------------ shape
     def rowCount(self, parent: AnyIndex = ROOT) -> int:
         return 0 if parent.isValid() else len(self._document.jobs)

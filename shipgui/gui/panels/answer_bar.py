@@ -27,13 +27,10 @@ from PySide6.QtWidgets import (
 
 from shipgui.core import Plan
 from shipgui.core.clock import format_duration, shown_minutes
-from shipgui.core.fleet.deadhead import tradeoff_rows as core_tradeoff_rows
+from shipgui.core.fleet.deadhead import tradeoff_rows
 from shipgui.core.fleet.schedule import class_counts
 
-__all__ = ["AnswerBar", "hours_minutes", "saving_text", "tradeoff_rows", "tradeoff_html"]
-
-
-hours_minutes = format_duration  # "3 h 05 min" style, rounded up to the minute
+__all__ = ["AnswerBar", "saving_text", "tradeoff_cells", "tradeoff_html"]
 
 LINK_COLOUR = "#2f5f8f"
 
@@ -48,12 +45,12 @@ def saving_text(before: int, after: int) -> str:
     return f"−{format_duration(minutes * 60)}" if minutes > 0 else "−<1 min"
 
 
-def tradeoff_rows(plan: Plan) -> list[tuple[int, str, str, str]]:
+def tradeoff_cells(plan: Plan) -> list[tuple[int, str, str, str]]:
     """(vehicles, least empty driving with at most that many, saving against the
     plan, with exactly that many where that shows differently, else ''), minimum
     fleet first; none unless the plan's routes are the least empty driving for its
     fleet (:func:`shipgui.core.fleet.deadhead.tradeoff_rows`)."""
-    rows = core_tradeoff_rows(plan)
+    rows = tradeoff_rows(plan)
     base = rows[0].at_most if rows else 0
     return [(row.vehicles, format_duration(row.at_most), saving_text(base, row.at_most),
              format_duration(row.exactly) if row.exactly_differs else "")
@@ -62,7 +59,7 @@ def tradeoff_rows(plan: Plan) -> list[tuple[int, str, str, str]]:
 
 def tradeoff_html(plan: Plan) -> str:
     """The whole trade-off as a small rich-text table (popup and tooltip); '' for none."""
-    return _table_html(plan, tradeoff_rows(plan))
+    return _table_html(plan, tradeoff_cells(plan))
 
 
 def _table_html(plan: Plan, rows: list[tuple[int, str, str, str]]) -> str:
@@ -189,7 +186,7 @@ class AnswerBar(QFrame):
     def show_plan(self, plan: Plan, seconds: float) -> None:
         self.vehicles.value.setText(str(plan.vehicles))
         self._show_classes(plan)
-        self.deadhead.value.setText(hours_minutes(plan.deadhead_seconds))
+        self.deadhead.value.setText(format_duration(plan.deadhead_seconds))
         self._show_tradeoff(plan)
         self.verified.setVisible(bool(plan.verified))
         self.set_busy(False)
@@ -209,7 +206,7 @@ class AnswerBar(QFrame):
     def _show_tradeoff(self, plan: Plan | None) -> None:
         """The least-for-this-fleet note, the one-more-vehicle line and the list;
         the plain caption when there is no trade-off."""
-        rows = tradeoff_rows(plan) if plan is not None else []
+        rows = tradeoff_cells(plan) if plan is not None else []
         table = _table_html(plan, rows) if rows else ""
         self.tradeoff_text = table
         self.tradeoff_wide = any(row[3] for row in rows)

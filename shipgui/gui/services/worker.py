@@ -183,7 +183,3 @@ class SolveController(QObject):
             self.solve_cancelled.emit()
         else:
             self.solve_failed.emit(*detail)
-
-    def wait_for_done(self, msecs: int = 30000) -> bool:
-        """Block until the pool is idle (for the screenshot mode and tests)."""
-        return self._pool.waitForDone(msecs)
