@@ -11,16 +11,25 @@ from __future__ import annotations
 
 import sys
 
-__all__ = ["check_qt_binding"]
+__all__ = ["check_qt_binding", "binding_refusal"]
+
+
+def binding_refusal(pyside: str, python: tuple[int, int],
+                    implementation: str = "cpython") -> str | None:
+    """Why this PySide6 version must not run on this Python, or None when it may."""
+    version = tuple(int(p) for p in pyside.split(".")[:2] if p.isdigit())
+    if implementation == "cpython" and python < (3, 12) and version == (6, 12):
+        return (f"PySide6 {pyside} crashes on Python {python[0]}.{python[1]} (a "
+                "reference-count bug); install 'PySide6-Essentials<6.12' or use Python "
+                "3.12 or newer")
+    return None
 
 
 def check_qt_binding() -> None:
+    """Raise ImportError when the installed PySide6 would crash on this Python."""
     import PySide6
 
-    version = tuple(int(p) for p in PySide6.__version__.split(".")[:2])
-    if sys.implementation.name == "cpython" and sys.version_info < (3, 12) \
-            and version == (6, 12):
-        raise ImportError(
-            f"PySide6 {PySide6.__version__} crashes on Python "
-            f"{sys.version_info.major}.{sys.version_info.minor} (a reference-count bug); "
-            "install 'PySide6-Essentials<6.12' or use Python 3.12 or newer")
+    reason = binding_refusal(PySide6.__version__, sys.version_info[:2],
+                             sys.implementation.name)
+    if reason:
+        raise ImportError(reason)

@@ -26,6 +26,15 @@ def test_worker_reports_a_plan(qtbot):
     assert stages[0] == (7, "checking")
 
 
+def test_every_stage_the_solver_reports_has_words():
+    from shipgui.core import solve_day
+    from shipgui.gui.services.worker import STAGE_NAMES
+    stages = ["checking"]  # the worker's own first stage
+    solve_day(regional_day(60, 6), progress=stages.append)
+    assert "least deadhead" in stages
+    assert [s for s in stages if s not in STAGE_NAMES] == []
+
+
 def test_worker_reports_input_problems_as_a_signal(qtbot):
     doc = small_document()
     doc.jobs[0] = Job("J1", "NOWHERE", "B", 8 * 3600, 9 * 3600)

@@ -28,6 +28,7 @@ STAGE_NAMES = {
     "checking": "Checking the inputs",
     "relation": "Working out which jobs can follow which",
     "matching": "Pairing jobs onto vehicles",
+    "least deadhead": "Finding the routes with the least empty driving",
     "routes": "Writing the routes",
     "verification": "Checking the plan independently",
 }
