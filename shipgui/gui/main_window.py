@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from PySide6.QtCore import Qt, Signal
+from PySide6.QtCore import Qt, QTimer, Signal
 from PySide6.QtGui import QCloseEvent, QKeySequence, QUndoStack
 from PySide6.QtWidgets import (
     QInputDialog,
@@ -35,6 +35,7 @@ from .panels.timeline import TimelineView
 from .services.autosave import Autosaver, find_recoveries
 from .services.settings import AppSettings
 from .services.worker import SolveController, snapshot
+from .wording import count
 
 __all__ = ["MainWindow", "CAUTION"]
 
@@ -53,6 +54,7 @@ class MainWindow(QMainWindow):
         self.undo_stack = QUndoStack(self)
         self.plan: Plan | None = None
         self.plan_is_current = False
+        self._fit_when_shown = False
         self.problems: list[Problem] = []
         self.solver = SolveController(self, delay_ms=solve_delay_ms)
         self._make_actions()
@@ -155,6 +157,7 @@ class MainWindow(QMainWindow):
         split.addWidget(right_box)
         split.setStretchFactor(1, 1)
         split.setSizes([430, 850])
+        self.main_splitter = split
         central = QWidget()
         layout = QVBoxLayout(central)
         layout.setContentsMargins(0, 0, 0, 0)
@@ -284,10 +287,24 @@ class MainWindow(QMainWindow):
             self.inputs_panel.show_document(self.document)
         if change.kind == "reset":
             self.update_title()
+            if self.isVisible():
+                self._fit_jobs_panel()
+            else:  # the splitter has its real width only once the window is shown
+                self._fit_when_shown = True
         if change.field == "driver_names" and self.plan is not None:
             self.timeline.set_plan(self.plan, self.document.driver_names)
         self.jobs_panel.show_message("")
         self.request_solve()
+
+    def _fit_jobs_panel(self) -> None:
+        """Give the jobs table room for its columns through the customer, up to half
+        the window (the timeline keeps the rest)."""
+        self._fit_when_shown = False
+        self.jobs_panel.fit_columns()
+        total = sum(self.main_splitter.sizes())
+        tab_frame = 8
+        left = min(self.jobs_panel.width_through(Column.CUSTOMER) + tab_frame, total // 2)
+        self.main_splitter.setSizes([left, total - left])
 
     # ------------------------------------------------------------ solver outcomes
     def _on_busy(self, busy: bool) -> None:
@@ -304,14 +321,14 @@ class MainWindow(QMainWindow):
         self.jobs_model.set_plan(plan)
         self.inputs_panel.show_notes(plan.day.warnings)
         self.files.update_actions()
-        self.statusBar().showMessage(f"Solved {plan.day.n} jobs in {seconds * 1000:.0f} ms",
+        self.statusBar().showMessage(f"Solved {count(plan.day.n, 'job')} in "
+                                     f"{seconds * 1000:.0f} ms",
                                      5000)
         self.plan_shown.emit(plan)
 
     def _on_problems(self, problems: list[Problem]) -> None:
         self.problems = list(problems)
-        count = len(problems)
-        self._show_empty(f"No plan: {count} problem{'s' if count != 1 else ''} in the inputs "
+        self._show_empty(f"No plan: {count(len(problems), 'problem')} in the inputs "
                          "(listed above the timeline).")
         self.problem_heading.setText("The day cannot be planned until these are fixed "
                                      "(edit the jobs, attach a file or change a setting):")
@@ -405,6 +422,11 @@ class MainWindow(QMainWindow):
                           f"<p>{CAUTION}</p>")
 
     # ------------------------------------------------------------ window events
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        if self._fit_when_shown:
+            QTimer.singleShot(0, self._fit_jobs_panel)  # after the layout has run
+
     def dragEnterEvent(self, event) -> None:
         if self.files.droppable(event.mimeData()):
             event.acceptProposedAction()

@@ -354,3 +354,22 @@ def test_undo_and_redo_read_as_undo_and_redo_not_as_navigation(qtbot, small_wind
         assert not action.icon().isNull()
         assert action.icon().pixmap(16).toImage() not in arrows
     assert w.undo_action.text() == "Undo Set notes of J1 to 'ring first'"
+
+
+def test_at_1400_pixels_the_jobs_table_shows_the_customers(qtbot, demo_window):
+    w = demo_window
+    w.resize(1400, 820)
+    w.show()
+    qtbot.waitUntil(lambda: not w._fit_when_shown)  # noqa: SLF001 - sized after the layout
+    table = w.jobs_panel.table
+    right = table.columnViewportPosition(Column.CUSTOMER) + table.columnWidth(Column.CUSTOMER)
+    assert right <= table.viewport().width()
+    widest = max(table.fontMetrics().horizontalAdvance(j.customer) for j in w.document.jobs)
+    assert table.columnWidth(Column.CUSTOMER) >= widest
+    assert w.timeline.width() >= 1400 // 2 - 40  # the timeline keeps most of the room
+
+
+def test_day_start_and_end_show_their_whole_hint(small_window):
+    for edit in (small_window.inputs_panel.day_start, small_window.inputs_panel.day_end):
+        hint = edit.fontMetrics().horizontalAdvance(edit.placeholderText())
+        assert edit.width() >= hint + 12  # frame and text margins of a line edit

@@ -105,3 +105,24 @@ def test_no_plan_shows_the_reason(view):
     view.set_plan(None, message="Fix the problems first.")
     texts = [i.text() for i in view.scene().items() if hasattr(i, "text")]
     assert texts == ["Fix the problems first."]
+
+
+def test_long_ids_show_their_end_when_narrow_and_whole_when_zoomed_in(view):
+    # Seven-character ids, one-hour jobs: at 40 px an hour no whole id fits a bar.
+    import dataclasses
+
+    day = load_demo()
+    jobs = [dataclasses.replace(j, id=f"DL-{k:04d}") for k, j in enumerate(day.jobs)]
+    plan = solve_day(dataclasses.replace(day, jobs=tuple(jobs)))
+    view.set_plan(plan)
+    view.set_pixels_per_hour(40)
+    bars = [view.job_bar(j.id) for j in jobs]
+    hour_long = [b for b in bars if b.rect().width() >= 40]
+    assert hour_long and all(b.label == b.job_id or (
+        b.label.startswith("…") and len(b.label) >= 4 and b.job_id.endswith(b.label[1:]))
+        for b in hour_long)
+    assert any(b.label.startswith("…") for b in hour_long)
+    assert all(b.job_id in b.toolTip() for b in bars)
+    view.set_pixels_per_hour(400)
+    bars = [view.job_bar(j.id) for j in jobs]
+    assert sum(b.label == b.job_id for b in bars) >= 0.9 * len(bars)

@@ -30,6 +30,8 @@ from shipgui.core.clock import format_duration, shown_minutes
 from shipgui.core.fleet.deadhead import tradeoff_rows
 from shipgui.core.fleet.schedule import class_counts
 
+from ..wording import count
+
 __all__ = ["AnswerBar", "saving_text", "tradeoff_cells", "tradeoff_html"]
 
 LINK_COLOUR = "#2f5f8f"
@@ -79,7 +81,7 @@ def _table_html(plan: Plan, rows: list[tuple[int, str, str, str]]) -> str:
         lines.append("<tr>" + "".join(f'<td style="{pad}" align="{a}">{c}</td>'
                                       for a, c in zip(aligns, cells)) + "</tr>")
     minimum = rows[0][0]
-    notes = [f"The routes shown use {minimum} vehicles, the fewest possible, and have the "
+    notes = [f"The routes shown use {count(minimum, 'vehicle')}, the fewest possible, and have the "
              f"least empty driving any {minimum}-vehicle plan can have.",
              "Each row: the least empty driving with at most that many vehicles, and "
              "what that saves against this plan."]
@@ -186,21 +188,23 @@ class AnswerBar(QFrame):
     def show_plan(self, plan: Plan, seconds: float) -> None:
         self.vehicles.value.setText(str(plan.vehicles))
         self._show_classes(plan)
+        self.vehicles.caption.setText("vehicle needed" if plan.vehicles == 1
+                                      else "vehicles needed")
         self.deadhead.value.setText(format_duration(plan.deadhead_seconds))
         self._show_tradeoff(plan)
         self.verified.setVisible(bool(plan.verified))
         self.set_busy(False)
         note = "" if plan.verified else "  The independent check FAILED."
         # No-break spaces: a narrow bar wraps between the parts, not inside them.
-        parts = ("Up to date", f"{plan.day.n} jobs", f"solved in {seconds * 1000:.0f} ms")
+        parts = ("Up to date", count(plan.day.n, "job"), f"solved in {seconds * 1000:.0f} ms")
         self.status.setText(" · ".join(p.replace(" ", "\u00a0") for p in parts) + note)
 
     def _show_classes(self, plan: Plan | None) -> None:
         counts = class_counts(plan) if plan is not None else []
         shown = len(counts) > 1
         self.by_class.setVisible(shown)
-        self.by_class.setText(" · ".join(f"{_short(name or '(no class)')} {count}"
-                                         for name, count in counts) if shown else "")
+        self.by_class.setText(" · ".join(f"{_short(name or '(no class)')} {n}"
+                                         for name, n in counts) if shown else "")
         self.by_class.setToolTip("Vehicles needed per vehicle class" if shown else "")
 
     def _show_tradeoff(self, plan: Plan | None) -> None:
@@ -216,7 +220,8 @@ class AnswerBar(QFrame):
             self.saving.setVisible(False)
             return
         (vehicles, least), *more = plan.tradeoff
-        self.deadhead.caption.setText(f"empty driving, least possible with {vehicles} vehicles")
+        self.deadhead.caption.setText("empty driving, least possible with "
+                                     f"{count(vehicles, 'vehicle')}")
         if not more:  # every job has a vehicle of its own: nothing to trade
             self.saving.setVisible(False)
             return

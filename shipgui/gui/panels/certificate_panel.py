@@ -32,9 +32,11 @@ ROOT = QModelIndex()  # the invisible parent of a flat table's rows
 
 def certificate_summary(plan: Plan) -> str:
     n, used = len(plan.certificate), plan.vehicles
-    jobs = "job" if n == 1 else "jobs"
-    text = (f"No vehicle can do two of these {n} {jobs}, so at least {n} "
-            f"{'vehicle is' if n == 1 else 'vehicles are'} needed; this plan uses {used}.")
+    if n == 1:
+        text = f"A day with jobs needs at least 1 vehicle; this plan uses {used}."
+    else:
+        text = (f"No vehicle can do two of these {n} jobs, so at least {n} vehicles are "
+                f"needed; this plan uses {used}.")
     if plan.verified:
         text += " Both facts were checked independently of the solver."
     else:

@@ -22,15 +22,19 @@ from PySide6.QtWidgets import (
 from shipgui.core import Settings, format_clock, parse_clock
 from shipgui.core.document import DayDocument
 
+from .. import wording
+
 __all__ = ["InputsPanel"]
 
 NO_DEPOT = "(no depot)"
 
 
 class _FileRow(QWidget):
-    def __init__(self, kind: str, panel: InputsPanel) -> None:
+    def __init__(self, kind: str, noun: str, panel: InputsPanel) -> None:
         super().__init__()
+        self.noun = noun
         self.name = QLabel("none")
+        self.name.setWordWrap(True)
         self.name.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
         self.attach = QPushButton("Attach…")
         self.attach.setToolTip(f"Use a {kind} file (CSV) with this day")
@@ -45,10 +49,10 @@ class _FileRow(QWidget):
 
     def show_source(self, source: str | None, count: int) -> None:
         if source:
-            self.name.setText(f"{Path(source).name} ({count})")
+            self.name.setText(f"{Path(source).name} ({wording.count(count, self.noun)})")
             self.name.setToolTip(source)
         elif count:
-            self.name.setText(f"{count} kept in the plan file")
+            self.name.setText(f"{wording.count(count, self.noun)} kept in the plan file")
             self.name.setToolTip("")
         else:
             self.name.setText("none")
@@ -69,8 +73,8 @@ class InputsPanel(QWidget):
         self._settings = Settings()
         self._loading = False
         self.jobs_file = QLabel("none")
-        self.sites_row = _FileRow("sites", self)
-        self.travel_row = _FileRow("travel", self)
+        self.sites_row = _FileRow("sites", "site", self)
+        self.travel_row = _FileRow("travel", "travel time", self)
         self.turnaround = QSpinBox()
         self.turnaround.setRange(0, 600)
         self.turnaround.setSuffix(" min")
@@ -82,7 +86,8 @@ class InputsPanel(QWidget):
         self.day_end = QLineEdit()
         for edit in (self.day_start, self.day_end):
             edit.setPlaceholderText("HH:MM, or empty")
-            edit.setMaximumWidth(110)
+            # Wide enough for the hint in any font (frame and margins: 24 px).
+            edit.setFixedWidth(edit.fontMetrics().horizontalAdvance("HH:MM, or empty") + 24)
         self.speed = QDoubleSpinBox()
         self.speed.setRange(5, 150)
         self.speed.setDecimals(0)
@@ -131,7 +136,8 @@ class InputsPanel(QWidget):
             s = self._settings = document.settings
             self.jobs_file.setText(Path(document.sources["jobs"]).name
                                    if "jobs" in document.sources
-                                   else f"{len(document.jobs)} kept in the plan file")
+                                   else f"{wording.count(len(document.jobs), 'job')} kept "
+                                        "in the plan file")
             self.sites_row.show_source(document.sources.get("sites"), len(document.sites))
             self.travel_row.show_source(document.sources.get("travel"), len(document.travel))
             self.turnaround.setValue(s.turnaround // 60)

@@ -20,6 +20,10 @@ from ..models.jobs_model import Column, JobRole, JobsFilterModel, JobsModel
 
 __all__ = ["JobsPanel"]
 
+# Columns size to their content, up to these widths (long notes get a tooltip).
+_MOST = {Column.CUSTOMER: 220, Column.REFERENCE: 140, Column.NOTES: 240}
+_SAMPLED_ROWS = 400  # rows looked at when sizing columns (all of them is slow at 200 000)
+
 
 class JobsPanel(QWidget):
     """Shows a :class:`JobsModel` through a sorting and filtering proxy."""
@@ -48,11 +52,8 @@ class JobsPanel(QWidget):
         header = self.table.horizontalHeader()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         header.setStretchLastSection(False)
-        widths = {Column.JOB: 64, Column.ORIGIN: 56, Column.DESTINATION: 56, Column.START: 68,
-                  Column.END: 68, Column.VEHICLE_CLASS: 52, Column.CUSTOMER: 140,
-                  Column.REFERENCE: 84, Column.NOTES: 140, Column.VEHICLE: 56}
-        for column, width in widths.items():
-            self.table.setColumnWidth(column, width)
+        header.setResizeContentsPrecision(_SAMPLED_ROWS)
+        self.fit_columns()
         self.table.selectionModel().currentRowChanged.connect(self._on_current)
         bar = QHBoxLayout()
         bar.addWidget(self.filter, 1)
@@ -71,6 +72,21 @@ class JobsPanel(QWidget):
         layout.addWidget(self.message)
         layout.addWidget(self.table, 1)
         self._quiet = False
+
+    def fit_columns(self) -> None:
+        """Size the columns to their headings and content (long text columns capped)."""
+        self.table.resizeColumnsToContents()
+        for column, most in _MOST.items():
+            if self.table.columnWidth(column) > most:
+                self.table.setColumnWidth(column, most)
+
+    def width_through(self, last: Column) -> int:
+        """The panel width that shows every column up to ``last`` whole."""
+        columns = sum(self.table.columnWidth(c) for c in Column if c <= last)
+        margins = self.layout().contentsMargins()
+        frame = 2 * self.table.frameWidth()
+        scrollbar = self.table.verticalScrollBar().sizeHint().width()
+        return columns + frame + scrollbar + margins.left() + margins.right() + 4
 
     def show_message(self, text: str) -> None:
         """A refused edit's reason under the filter box (empty text hides it)."""

@@ -56,6 +56,7 @@ class JobBar(QGraphicsRectItem):
         self.setZValue(2)
         self.base_brush = QBrush(COLOURS["job"])
         self.setBrush(self.base_brush)
+        self.label = ""  # the id as written on the bar ("" when no room)
 
     def paint(self, painter: QPainter, option, widget=None) -> None:
         painter.setRenderHint(QPainter.RenderHint.Antialiasing, True)
@@ -313,11 +314,13 @@ class TimelineView(QGraphicsView):
             bar = JobBar(rect, job.id, _job_tooltip(day, job))
             scene.addItem(bar)
             self._bars[job.id] = bar
-            if metrics.horizontalAdvance(job.id) + 6 <= rect.width():
-                text = QGraphicsSimpleTextItem(job.id, bar)
+            shown = _bar_label(job.id, metrics, rect.width() - 6)
+            if shown:
+                text = QGraphicsSimpleTextItem(shown, bar)
                 text.setFont(font)
                 text.setBrush(QBrush(COLOURS["job_text"]))
                 text.setPos(rect.x() + 4, rect.y() + (BAR_HEIGHT - metrics.height()) / 2)
+                bar.label = shown
 
     def _label(self, k: int) -> str:
         name = self._names.get(k + 1, "")
@@ -383,6 +386,16 @@ def _drive_tooltip(day, drive) -> str:
     origin = "the depot" if drive.kind == "out" else day.site_label(drive.origin)
     return (f"Empty drive {format_duration(drive.seconds)} from {origin} "
             f"to {day.site_label(drive.destination)}")
+
+
+def _bar_label(job_id: str, metrics: QFontMetricsF, room: float) -> str:
+    """The id if it fits, else its end ("…0141": ids of a day usually differ at the
+    end), else nothing; zooming in makes room for the whole id."""
+    if metrics.horizontalAdvance(job_id) <= room:
+        return job_id
+    shown = metrics.elidedText(job_id, Qt.TextElideMode.ElideLeft, room)
+    kept = len(shown) - 1  # characters besides the ellipsis
+    return shown if kept >= min(3, len(job_id) - 1) and shown.startswith("…") else ""
 
 
 def _job_tooltip(day, job) -> str:
