@@ -11,12 +11,13 @@ table model can announce inserted and removed rows correctly.
 from __future__ import annotations
 
 import dataclasses
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from datetime import date
 from pathlib import Path
 
 from .day import build_inputs
+from .drivers import Driver, DriverPlace, place_drivers
 from .io.plan_file import read_plan_file, write_plan_file
 from .model import Day, DayInputs, Job, Settings, Site
 
@@ -48,7 +49,7 @@ class DayDocument:
     settings: Settings = field(default_factory=Settings)
     plan_date: date | None = None
     sources: dict[str, str] = field(default_factory=dict)
-    driver_names: dict[int, str] = field(default_factory=dict)
+    drivers: list[Driver] = field(default_factory=list)
     path: Path | None = None  # the plan file, once saved or opened
     _listeners: list[Listener] = field(default_factory=list, repr=False, compare=False)
 
@@ -95,12 +96,12 @@ class DayDocument:
         """A copy of the current inputs (safe to hand to another thread)."""
         return DayInputs(tuple(self.jobs), tuple(self.sites), dict(self.travel),
                          self.settings, self.plan_date, dict(self.sources),
-                         dict(self.driver_names))
+                         tuple(self.drivers))
 
     @classmethod
     def from_inputs(cls, inputs: DayInputs, path: Path | None = None) -> DayDocument:
         return cls(list(inputs.jobs), list(inputs.sites), dict(inputs.travel), inputs.settings,
-                   inputs.plan_date, dict(inputs.sources), dict(inputs.driver_names), path)
+                   inputs.plan_date, dict(inputs.sources), list(inputs.drivers), path)
 
     @classmethod
     def open(cls, path: str | Path) -> DayDocument:
@@ -161,14 +162,27 @@ class DayDocument:
             self.sources.pop(kind, None)
         self._notify(change, True)
 
-    def set_driver_name(self, vehicle: int, name: str) -> None:
-        change = Change("inputs", field="driver_names")
+    def replace_driver(self, old: Driver | None, new: Driver | None) -> None:
+        """Put ``new`` where ``old`` was (either may be None: add, or remove)."""
+        change = Change("inputs", field="drivers")
         self._notify(change, False)
-        if name:
-            self.driver_names[vehicle] = name
-        else:
-            self.driver_names.pop(vehicle, None)
+        at = self.drivers.index(old) if old in self.drivers else len(self.drivers)
+        if old in self.drivers:
+            self.drivers.remove(old)
+        if new is not None:
+            self.drivers.insert(at, new)
         self._notify(change, True)
+
+    def place_drivers(self, routes: Sequence[Sequence[str]]) -> list[DriverPlace]:
+        """Where each driver is in a plan with these routes (job ids); names kept by
+        vehicle number (old plan files) are tied to their route's jobs now."""
+        places = place_drivers(self.drivers, routes)
+        for k, place in enumerate(places):
+            if place.driver.vehicle is not None and place.vehicle is not None:
+                tied = Driver(place.driver.name, frozenset(routes[place.vehicle - 1]))
+                self.drivers[self.drivers.index(place.driver)] = tied
+                places[k] = dataclasses.replace(place, driver=tied)
+        return places
 
     def replace_all(self, other: DayDocument) -> None:
         """Take over every input of ``other`` (opening a new day in this window)."""

@@ -7,6 +7,8 @@ from datetime import date
 
 import numpy as np
 
+from .drivers import Driver
+
 __all__ = ["Job", "Site", "Settings", "DayInputs", "Day", "Plan", "DEFAULT_SPEED_KMH",
            "DEFAULT_CIRCUITY", "TravelPairs", "SITE_DETAILS"]
 
@@ -93,8 +95,8 @@ TravelPairs = dict[tuple[str, str], tuple[int, int]]
 class DayInputs:
     """Everything a day is planned from, checked record by record but not yet as a
     whole (:func:`shipgui.core.day.build_day` does that): what the files, a plan
-    file or the app's editor hold.  ``driver_names`` maps vehicle numbers to the
-    names a dispatcher typed (kept with a plan file)."""
+    file or the app's editor hold.  ``drivers`` are the names a dispatcher gave
+    routes, each tied to its route's jobs (kept with a plan file)."""
 
     jobs: tuple[Job, ...]
     sites: tuple[Site, ...] = ()
@@ -102,7 +104,7 @@ class DayInputs:
     settings: Settings = field(default_factory=Settings)
     plan_date: date | None = None
     sources: dict[str, str] = field(default_factory=dict)
-    driver_names: dict[int, str] = field(default_factory=dict)
+    drivers: tuple[Driver, ...] = ()
 
 
 def _frozen(a: np.ndarray) -> np.ndarray:

@@ -14,6 +14,7 @@ from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QStyle, QWidget
 from shipgui.core import InputError, Plan, Problem, Settings, read_sites, read_travel
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
 from shipgui.core.document import DayDocument
+from shipgui.core.drivers import names_by_vehicle
 from shipgui.core.export.plan_json import plan_to_json
 from shipgui.core.export.routes_table import write_routes
 from shipgui.core.io.files import write_bytes_atomic
@@ -317,7 +318,7 @@ class FileActions(QObject):
                             f"{what[0].upper()}{what[1:]} was not written: {reason}.")
 
     def _names(self, plan: Plan) -> dict[int, str]:
-        return dict(self.document.driver_names)
+        return names_by_vehicle(self.document.place_drivers(plan.route_ids()))
 
     def export_json(self) -> bool:
         """Write the plan as JSON in the background; True when the export started."""

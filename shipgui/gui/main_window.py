@@ -20,10 +20,11 @@ from PySide6.QtWidgets import (
 from shipgui.core import Job, Plan, Problem
 from shipgui.core.caution import CAUTION
 from shipgui.core.document import Change, DayDocument
+from shipgui.core.drivers import DriverPlace, names_by_vehicle
 
 from .actions import make_action, themed_icon
 from .file_actions import FileActions
-from .models.commands import AddJob, ChangeSettings, DeleteJobs, RenameDriver
+from .models.commands import AddJob, ChangeSettings, DeleteJobs, NameDriver
 from .models.jobs_model import Column, JobsModel
 from .panels.answer_bar import AnswerBar
 from .panels.certificate_panel import CertificatePanel
@@ -56,6 +57,7 @@ class MainWindow(QMainWindow):
         self.plan_is_current = False
         self._fit_when_shown = False
         self.problems: list[Problem] = []
+        self.driver_places: list[DriverPlace] = []
         self.solver = SolveController(self, delay_ms=solve_delay_ms)
         self._make_actions()
         self.jobs_model = JobsModel(self.document, self.undo_stack, self)
@@ -150,6 +152,14 @@ class MainWindow(QMainWindow):
         right_layout = QVBoxLayout(right_box)
         right_layout.setContentsMargins(0, 0, 0, 0)
         right_layout.setSpacing(0)
+        self.driver_notice = QLabel()
+        self.driver_notice.setObjectName("driverNotice")
+        self.driver_notice.setWordWrap(True)
+        self.driver_notice.setStyleSheet("background: #fbf3df; color: #6a5420; padding: 4px 8px;")
+        self.driver_notice.setToolTip("Double-click a vehicle in the timeline to name its "
+                                      "driver again")
+        self.driver_notice.setVisible(False)
+        right_layout.addWidget(self.driver_notice)
         right_layout.addWidget(right, 1)
         right_layout.addWidget(self.caution)
         split = QSplitter(Qt.Orientation.Horizontal)
@@ -283,6 +293,10 @@ class MainWindow(QMainWindow):
     def _on_document_change(self, change: Change, done: bool) -> None:
         if not done:
             return
+        if change.field == "drivers":  # names do not change the plan
+            if self.plan is not None:
+                self._show_drivers(self.plan)
+            return
         if change.kind in ("reset", "inputs"):
             self.inputs_panel.show_document(self.document)
         if change.kind == "reset":
@@ -291,8 +305,6 @@ class MainWindow(QMainWindow):
                 self._fit_jobs_panel()
             else:  # the splitter has its real width only once the window is shown
                 self._fit_when_shown = True
-        if change.field == "driver_names" and self.plan is not None:
-            self.timeline.set_plan(self.plan, self.document.driver_names)
         self.jobs_panel.show_message("")
         self.request_solve()
 
@@ -316,7 +328,7 @@ class MainWindow(QMainWindow):
         self.plan, self.plan_is_current, self.problems = plan, True, []
         self.problem_box.setVisible(False)
         self.answer.show_plan(plan, seconds)
-        self.timeline.set_plan(plan, self.document.driver_names)
+        self._show_drivers(plan)
         self.certificate.set_plan(plan)
         self.jobs_model.set_plan(plan)
         self.inputs_panel.show_notes(plan.day.warnings)
@@ -356,6 +368,7 @@ class MainWindow(QMainWindow):
     def _show_empty(self, why: str) -> None:
         self.plan, self.plan_is_current = None, False
         self.answer.show_nothing(why)
+        self.driver_notice.setVisible(False)
         self.timeline.set_plan(None, message=why)
         self.certificate.set_plan(None)
         self.jobs_model.set_plan(None)
@@ -384,14 +397,30 @@ class MainWindow(QMainWindow):
         if rows:
             self.undo_stack.push(DeleteJobs(self.document, rows))
 
+    def _show_drivers(self, plan: Plan) -> None:
+        """Drivers on their routes in the timeline, and a word when an edit split,
+        merged or emptied a named route."""
+        self.driver_places = self.document.place_drivers(plan.route_ids())
+        self.timeline.set_plan(plan, names_by_vehicle(self.driver_places))
+        notes = [p.note for p in self.driver_places if p.note]
+        self.driver_notice.setText("\n".join(notes) + "  (Double-click a vehicle's name to "
+                                   "name its driver again.)")
+        self.driver_notice.setVisible(bool(notes))
+
     def ask_driver_name(self, vehicle: int) -> None:
-        """Type the driver of a vehicle (printed on its route sheet); one undo step."""
-        current = self.document.driver_names.get(vehicle, "")
+        """Type the driver of a vehicle (printed on its route sheet); one undo step.
+        The name is tied to the route's jobs, so it stays with them when a later
+        solve numbers the vehicles differently."""
+        if self.plan is None or not 1 <= vehicle <= self.plan.vehicles:
+            return
+        current = next((p.driver for p in self.driver_places if p.vehicle == vehicle), None)
+        jobs = frozenset(self.plan.route_ids()[vehicle - 1])
+        old = current.name if current else ""
         name, ok = QInputDialog.getText(self, "Driver", f"Driver of vehicle {vehicle}:",
-                                        text=current)
+                                        text=old)
         name = name.strip()
-        if ok and name != current:
-            self.undo_stack.push(RenameDriver(self.document, vehicle, name))
+        if ok and (name != old or (current is not None and current.jobs != jobs)):
+            self.undo_stack.push(NameDriver(self.document, vehicle, jobs, current, name))
 
     def show_proof(self, on: bool) -> None:
         self.certificate.setVisible(on)

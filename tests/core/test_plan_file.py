@@ -9,6 +9,7 @@ import pytest
 from shipgui.core import InputError, Settings, solve_day
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
 from shipgui.core.document import DayDocument
+from shipgui.core.drivers import Driver
 from shipgui.core.export.plan_json import plan_to_json
 from shipgui.core.io.readers import read_inputs
 from tests.support.documents import small_document
@@ -18,7 +19,7 @@ def test_plan_document_round_trip(tmp_path):
     doc = small_document()
     doc.settings = Settings(turnaround=615, depot="A", day_start=5 * 3600, day_end=26 * 3600)
     doc.travel = {("A", "B"): (437, 2)}
-    doc.driver_names = {1: "Driver One"}
+    doc.drivers = [Driver("Driver One", frozenset({"J1", "J2"}))]
     path = tmp_path / "day.shipgui"
     doc.save(path)
     data = json.loads(path.read_text(encoding="utf-8"))
@@ -30,7 +31,8 @@ def test_plan_document_round_trip(tmp_path):
     assert back.sites == doc.sites
     assert {k: v[0] for k, v in back.travel.items()} == {("A", "B"): 437}
     assert back.settings == doc.settings
-    assert back.driver_names == {1: "Driver One"}
+    assert back.drivers == [Driver("Driver One", frozenset({"J1", "J2"}))]
+    assert data["drivers"] == [{"name": "Driver One", "jobs": ["J1", "J2"]}]
     assert back.path == path
     assert back.build().fingerprint == doc.build().fingerprint
 

@@ -9,6 +9,7 @@ from PySide6.QtGui import QUndoStack
 
 from shipgui.core import InputError, Job, Settings, Site
 from shipgui.core.document import Change, DayDocument
+from shipgui.core.drivers import Driver
 from shipgui.gui.models.commands import (
     AddJob,
     AttachSites,
@@ -16,7 +17,7 @@ from shipgui.gui.models.commands import (
     ChangeSettings,
     DeleteJobs,
     EditJobField,
-    RenameDriver,
+    NameDriver,
 )
 from tests.support.documents import small_document
 
@@ -87,12 +88,16 @@ def test_settings_and_companion_files_undo():
     assert "sites" not in doc.sources and "travel" not in doc.sources
 
 
-def test_rename_driver_undo():
+def test_name_driver_undo():
     doc, stack = small_document(), QUndoStack()
-    stack.push(RenameDriver(doc, 2, "Driver B"))
-    assert doc.driver_names == {2: "Driver B"}
+    stack.push(NameDriver(doc, 2, frozenset({"J3"}), None, "Driver B"))
+    assert doc.drivers == [Driver("Driver B", frozenset({"J3"}))]
+    assert stack.undoText() == "Name vehicle 2 'Driver B'"
+    stack.push(NameDriver(doc, 2, frozenset({"J3"}), doc.drivers[0], "Driver C"))
+    assert doc.drivers == [Driver("Driver C", frozenset({"J3"}))]
     stack.undo()
-    assert doc.driver_names == {}
+    stack.undo()
+    assert doc.drivers == []
 
 
 def test_an_edit_that_breaks_the_day_is_reported_by_build():

@@ -322,10 +322,12 @@ def test_double_click_vehicle_names_its_driver(qtbot, small_window, monkeypatch)
     monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("Ada Fenwick", True))
     point = QPoint(20, AXIS_HEIGHT + ROW_HEIGHT + ROW_HEIGHT // 2)  # vehicle 2's name
     QTest.mouseDClick(w.timeline.viewport(), Qt.MouseButton.LeftButton, pos=point)
-    assert w.document.driver_names == {2: "Ada Fenwick"}
+    assert [d.name for d in w.document.drivers] == ["Ada Fenwick"]
+    assert w.document.drivers[0].jobs == frozenset(w.plan.route_ids()[1])
     assert w.undo_stack.undoText() == "Name vehicle 2 'Ada Fenwick'"
+    assert w.timeline._label(1) == "Vehicle 2 · Ada Fenwick"  # noqa: SLF001
     w.undo_stack.undo()
-    assert w.document.driver_names == {}
+    assert w.document.drivers == []
 
 
 def test_csv_kind_and_companions(tmp_path):

@@ -16,6 +16,7 @@ from datetime import date
 from pathlib import Path
 
 from ..clock import format_clock, format_clock_or_none, parse_clock
+from ..drivers import Driver, drivers_from_numbers
 from ..errors import InputError, InputErrors, Problem
 from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
 from .files import write_bytes_atomic
@@ -52,7 +53,8 @@ def inputs_to_json(inputs: DayInputs) -> dict:
                      "day_start": format_clock_or_none(s.day_start),
                      "day_end": format_clock_or_none(s.day_end),
                      "speed_kmh": s.speed_kmh, "circuity": s.circuity},
-        "driver_names": {str(k): v for k, v in sorted(inputs.driver_names.items())},
+        "drivers": [{"name": d.name, "jobs": sorted(d.jobs)} if d.jobs or d.vehicle is None
+                    else {"name": d.name, "vehicle": d.vehicle} for d in inputs.drivers],
         "sources": dict(inputs.sources),
     }
 
@@ -195,10 +197,7 @@ def inputs_from_json(data, path: str) -> DayInputs:
     sites = _read_sites(reader, _records(reader, inputs, "sites"))
     travel = _read_travel(reader, _records(reader, inputs, "travel"))
     settings = _read_settings(reader, data.get("settings", {}))
-    names = data.get("driver_names", {})
-    drivers = ({int(k): str(v) for k, v in names.items()
-                if str(k).isascii() and str(k).isdigit() and len(str(k)) < 7}
-               if isinstance(names, dict) else {})
+    drivers = _read_drivers(reader, data)
     plan_date = None
     if data.get("plan_date"):
         try:
@@ -213,6 +212,33 @@ def inputs_from_json(data, path: str) -> DayInputs:
     sources = ({str(k): str(v) for k, v in raw_sources.items()}
                if isinstance(raw_sources, dict) else {})
     return DayInputs(tuple(jobs), tuple(sites), travel, settings, plan_date, sources, drivers)
+
+
+def _read_drivers(reader: _Reader, data: dict) -> tuple[Driver, ...]:
+    """Driver names tied to their routes' jobs; files before that kept
+    ``driver_names`` by vehicle number, tied to jobs at the first plan."""
+    if "drivers" not in data:
+        names = data.get("driver_names", {})
+        return drivers_from_numbers(
+            {int(k): str(v) for k, v in names.items()
+             if str(k).isascii() and str(k).isdigit() and len(str(k)) < 7}
+            if isinstance(names, dict) else {})
+    records = data["drivers"]
+    if not isinstance(records, list) or not all(isinstance(r, dict) for r in records):
+        reader.add("'drivers' should be a list of records", None, "drivers")
+        return ()
+    drivers = []
+    for row, r in enumerate(records, start=1):
+        name = reader.text(r, "name", row, required=True)
+        jobs, vehicle = r.get("jobs", []), r.get("vehicle")
+        if not isinstance(jobs, list) or not all(isinstance(j, str) for j in jobs):
+            reader.add("'jobs' should be a list of job ids", row, "jobs")
+        elif vehicle is not None and (isinstance(vehicle, bool) or not isinstance(vehicle, int)
+                                      or not 1 <= vehicle <= 1_000_000):
+            reader.add("'vehicle' should be a vehicle number", row, "vehicle")
+        elif name:
+            drivers.append(Driver(name, frozenset(jobs), vehicle if not jobs else None))
+    return tuple(drivers)
 
 
 def _check_version(version, path: str) -> None:

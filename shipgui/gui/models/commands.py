@@ -8,9 +8,10 @@ from PySide6.QtGui import QUndoCommand
 
 from shipgui.core import Job, Settings, Site, format_clock
 from shipgui.core.document import DayDocument
+from shipgui.core.drivers import Driver
 
 __all__ = ["EditJobField", "AddJob", "DeleteJobs", "ChangeSettings", "AttachSites",
-           "AttachTravel", "RenameDriver", "FIELD_LABELS"]
+           "AttachTravel", "NameDriver", "FIELD_LABELS"]
 
 FIELD_LABELS = {
     "id": "id", "origin": "origin", "destination": "destination", "start": "start",
@@ -132,17 +133,19 @@ class AttachTravel(_AttachCompanion):
         self._document.set_travel(value, source)
 
 
-class RenameDriver(QUndoCommand):
-    def __init__(self, document: DayDocument, vehicle: int, name: str) -> None:
+class NameDriver(QUndoCommand):
+    """Give a vehicle's route a driver (tied to the route's jobs), or clear it."""
+
+    def __init__(self, document: DayDocument, vehicle: int, jobs: frozenset[str],
+                 current: Driver | None, name: str) -> None:
         super().__init__(f"Name vehicle {vehicle} '{name}'" if name
                          else f"Clear name of vehicle {vehicle}")
         self._document = document
-        self._vehicle = vehicle
-        self._new = name
-        self._old = document.driver_names.get(vehicle, "")
+        self._old = current
+        self._new = Driver(name, jobs) if name else None
 
     def redo(self) -> None:
-        self._document.set_driver_name(self._vehicle, self._new)
+        self._document.replace_driver(self._old, self._new)
 
     def undo(self) -> None:
-        self._document.set_driver_name(self._vehicle, self._old)
+        self._document.replace_driver(self._new, self._old)
