@@ -33,7 +33,8 @@ from .panels.inputs_panel import InputsPanel
 from .panels.jobs_panel import JobsPanel
 from .panels.problems import ProblemList
 from .panels.timeline import TimelineView
-from .services.autosave import Autosaver, find_recoveries
+from .recovery import offer_recovery
+from .services.autosave import Autosaver, Recovery
 from .services.settings import AppSettings
 from .services.worker import SolveController, snapshot
 from .wording import count
@@ -177,6 +178,11 @@ class MainWindow(QMainWindow):
         self.setCentralWidget(central)
         self.export_progress = ExportProgress(self.files.exports)
         self.statusBar().addPermanentWidget(self.export_progress)
+        self.autosave_status = QLabel()
+        self.autosave_status.setStyleSheet("color: #9a2f2f; font-weight: 600;")
+        self.autosave_status.setVisible(False)
+        self.statusBar().addPermanentWidget(self.autosave_status)
+        self._autosave_warned = False
 
     def _make_menus(self) -> None:
         bar = self.menuBar()
@@ -214,6 +220,8 @@ class MainWindow(QMainWindow):
         self.inputs_panel.settings_refused.connect(self._refuse)
         self.inputs_panel.settings_edited.connect(
             lambda s, text: self.undo_stack.push(ChangeSettings(self.document, s, text)))
+        self.autosaver.failed.connect(self._on_autosave_failed)
+        self.autosaver.succeeded.connect(self._on_autosave_ok)
         self.files.opened.connect(lambda document, _path: self.load_document(document))
         self.files.saved.connect(self._on_saved)
         self.files.message.connect(self.statusBar().showMessage)
@@ -251,35 +259,29 @@ class MainWindow(QMainWindow):
         self.update_title()
 
     def offer_recovery(self) -> bool:
-        """Offer back work a crashed window autosaved; True if a day was recovered.
+        """Offer back work a crashed window autosaved; True if a day was recovered."""
+        return offer_recovery(self, self.settings.data_directory(), self._take_recovery)
 
-        Recover opens it here, with its changes still unsaved; Discard deletes
-        it; Later keeps it for the next start.
-        """
-        recovered = False
-        buttons = QMessageBox.StandardButton
-        for found in find_recoveries(self.settings.data_directory()):
-            if recovered:
-                found.lock.unlock()  # one day per window; the rest wait for the next start
-                continue
-            answer = QMessageBox.question(
-                self, "Recover unsaved work?",
-                f"shipgui did not close properly. Unsaved work on {found.document.title} "
-                f"was kept (autosaved {found.saved_at.replace('T', ' ')}). Recover it?",
-                buttons.Yes | buttons.Discard | buttons.Cancel, buttons.Yes)
-            if answer == buttons.Yes:
-                self.load_document(found.document)
-                self.document.path = found.document.path
-                self.undo_stack.resetClean()  # recovered work is not saved yet
-                self.update_title()
-                self.autosaver.autosave()  # this window now keeps it safe
-                found.discard()
-                recovered = True
-            elif answer == buttons.Discard:
-                found.discard()
-            else:
-                found.lock.unlock()
-        return recovered
+    def _take_recovery(self, found: Recovery) -> None:
+        self.load_document(found.document)
+        self.document.path = found.document.path
+        self.undo_stack.resetClean()  # recovered work is not saved yet
+        self.update_title()
+        self.autosaver.autosave()  # this window now keeps it safe
+
+    def _on_autosave_failed(self, reason: str) -> None:
+        """Said in the status bar while it lasts, and once in a dialog."""
+        self.autosave_status.setText(f"Autosave failed: {reason}")
+        self.autosave_status.setVisible(True)
+        if not self._autosave_warned:
+            self._autosave_warned = True
+            QMessageBox.warning(self, "Autosave failed",
+                                f"Your unsaved changes could not be kept safe: {reason}. "
+                                "Save the day (File ▸ Save as…) somewhere else to protect "
+                                "it. The status bar says when autosave works again.")
+
+    def _on_autosave_ok(self) -> None:
+        self.autosave_status.setVisible(False)
 
     def request_solve(self) -> None:
         self.plan_is_current = False

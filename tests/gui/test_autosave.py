@@ -124,7 +124,7 @@ def test_a_recovery_can_be_discarded_or_kept_for_later(qtbot, app_settings, tmp_
 def test_a_running_windows_recovery_file_is_not_offered(qtbot, small_window, tmp_path):
     edit(small_window)
     small_window.autosaver.autosave()
-    assert find_recoveries(tmp_path) == []
+    assert find_recoveries(tmp_path).found == []
 
 
 def test_export_routes_action_writes_neutralised_csv(qtbot, small_window, tmp_path,
