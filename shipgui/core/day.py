@@ -51,7 +51,48 @@ def build_day(jobs: list[Job], sites: list[Site],
               sources: dict[str, str] | None = None) -> Day:
     """Check jobs against the travel times and the depot day; close the travel matrix.
 
-    Raises :class:`InputErrors` listing every job or pair that is wrong.
+    Parameters
+    ----------
+    jobs : the day's jobs (times in seconds from the plan day's midnight).
+    sites : site records; coordinates estimate travel times missing from ``travel``.
+    travel : ``{(from, to): (seconds, row in the travel file)}``, one directed pair each.
+    settings : turnaround, depot and its day, speed and circuity for estimates.
+    plan_date, sources : carried into the day (printed, and used in messages).
+
+    Returns
+    -------
+    Day
+        The validated day: travel closed under shortest paths (so it satisfies
+        the triangle inequality), warnings for estimated and shortened pairs.
+
+    Raises
+    ------
+    InputErrors
+        Listing every job or site pair that is wrong (a pair with no travel time,
+        a job shorter than its own drive, a job the depot day cannot reach),
+        each with file, row and column.
+
+    Notes
+    -----
+    O(n) to check the jobs plus O(s^3) for the closure over the s sites in use
+    (at most 2 000), by Floyd-Warshall in scipy.
+
+    References
+    ----------
+    Floyd, "Algorithm 97: Shortest path", Communications of the ACM 5(6), 1962.
+
+    Examples
+    --------
+    >>> from shipgui.core import Job, Settings, build_day
+    >>> H = 3600
+    >>> jobs = [Job("J1", "A", "B", 8 * H, 9 * H), Job("J2", "B", "A", 9 * H + 900, 10 * H)]
+    >>> day = build_day(jobs, [], {("A", "B"): (1200, 2), ("B", "A"): (1200, 3)},
+    ...                 settings=Settings(turnaround=600))
+    >>> day.n, day.site_ids, day.travel_between("A", "B")
+    (2, ('A', 'B'), 1200)
+    >>> build_day(jobs, [], {("A", "B"): (1200, 2)})  # doctest: +IGNORE_EXCEPTION_DETAIL
+    Traceback (most recent call last):
+    shipgui.core.errors.InputError: no travel time for the pair B -> A
     """
     sources = dict(sources or {})
     by_id = {s.id: s for s in sites}

@@ -278,7 +278,7 @@ class MainWindow(QMainWindow):
             QMessageBox.warning(self, "Autosave failed",
                                 f"Your unsaved changes could not be kept safe: {reason}. "
                                 "Save the day (File ▸ Save as…) somewhere else to protect "
-                                "it. The status bar says when autosave works again.")
+                                "it. The status bar shows this until autosave works again.")
 
     def _on_autosave_ok(self) -> None:
         self.autosave_status.setVisible(False)

@@ -185,10 +185,30 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
                      check: Callable[[], None] | None = None) -> LinkSolution:
     """The least-cost set of as many links as ``matching`` has, for one class.
 
-    ``matching``: a succ array (-1: no successor), normally a maximum matching,
-    so the fleet stays minimal; its links also make the first round feasible.
-    ``extra``: also the least cost with links - 1, ..., links - extra.
-    ``check`` is called between rounds (it may raise to stop the solve).
+    Parameters
+    ----------
+    costs : the class's link costs in prefix form (:func:`class_costs`).
+    matching : a succ array (-1: no successor), normally a maximum matching, so
+        the fleet stays minimal; its links also make the first round feasible.
+    extra : also the least cost with links - 1, ..., links - extra.
+    check : called between rounds; it may raise to stop the solve.
+
+    Returns
+    -------
+    LinkSolution
+        ``succ`` with the least total link cost among all sets of that many
+        links, ``link_cost``, and ``curve`` (least cost with fewer links).
+
+    Raises
+    ------
+    RuntimeError
+        If the flow lost links or its cost disagrees with the links (a bug).
+
+    Notes
+    -----
+    Each round is a min-cost flow by cost scaling on the O(m * G) arcs allowed
+    so far (worst case O(V^2 E log(V C)), Goldberg & Tarjan); rounds are few in
+    practice.  Memory O(m * G).
 
     Link arcs are priced in (column generation; e.g. Desrosiers & Lübbecke, "A
     primer in column generation", in Column Generation, Springer 2005): the
@@ -199,6 +219,29 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
     stops when no arc of the full network has a negative reduced cost, which
     proves the flow optimal on the full network.  The same check follows every
     step of the trade-off.
+
+    References
+    ----------
+    Goldberg & Tarjan, "Finding minimum-cost circulations by successive
+    approximation", Mathematics of Operations Research 15(3), 1990.
+
+    Examples
+    --------
+    Two yards half an hour apart, a job at each yard early and late; the given
+    matching crosses over (two empty half-hour drives), the least-cost links
+    do not:
+
+    >>> import numpy as np
+    >>> from shipgui.core import Job, build_day
+    >>> from shipgui.core.fleet.precedence import class_indexes
+    >>> H = 3600
+    >>> jobs = [Job("J1", "A", "A", 8 * H, 9 * H), Job("J2", "B", "B", 8 * H, 9 * H),
+    ...         Job("J3", "A", "A", 10 * H, 11 * H), Job("J4", "B", "B", 10 * H, 11 * H)]
+    >>> day = build_day(jobs, [], {("A", "B"): (1800, 0), ("B", "A"): (1800, 0)})
+    >>> [index] = class_indexes(day)
+    >>> best = least_cost_links(class_costs(day, index), np.array([3, 2, -1, -1]))
+    >>> best.succ.tolist(), best.link_cost
+    ([2, 3, -1, -1], 0)
     """
     m = costs.index.m
     linked = np.flatnonzero(matching >= 0)

@@ -33,17 +33,57 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
               cancelled: Callable[[], bool] | None = None) -> Plan:
     """Minimum fleet, routes and certificate for ``day``, independently verified.
 
-    With ``least_deadhead`` (the default) the routes are, among all
-    minimum-fleet plans, one with the least empty driving
-    (:mod:`shipgui.core.fleet.least_deadhead`), and ``tradeoff`` extra vehicles are
-    priced: ``plan.tradeoff`` lists (vehicles, least empty driving with at most
-    that many vehicles), ``plan.tradeoff_exact`` the same with exactly that many.
-    Without it the routes are those of the maximum matching (any minimum-fleet
-    plan) and there is no trade-off.
-    ``progress`` is called with a stage name between steps; when
-    ``cancelled()`` turns true the solve stops with :class:`Cancelled` (also
-    between the rounds of the least-deadhead stage).  The fleet takes
-    O(phases * n * sites) time; memory is O(n * sites) throughout.
+    Parameters
+    ----------
+    day : a validated day (:func:`shipgui.core.day.build_day`).
+    kernel : the matching kernel, "hopcroft-karp" or "dinic" (default: the
+        fastest available, see :func:`.matching.default_kernel`).
+    least_deadhead : among all minimum-fleet plans, pick one with the least empty
+        driving (default); False keeps the maximum matching's routes.
+    tradeoff : with ``least_deadhead``, also price this many extra vehicles.
+    progress : called with a stage name ("relation", "matching", "least
+        deadhead", "routes", "verification") as each stage ends.
+    cancelled : polled between stages and pricing rounds.
+
+    Returns
+    -------
+    Plan
+        Routes (job indices in time order, one route per vehicle), the
+        certificate (as many jobs as routes, pairwise unable to share a
+        vehicle), ``verified`` from :func:`.verify.check_plan`, the empty
+        driving, and ``tradeoff`` / ``tradeoff_exact``: (vehicles, least empty
+        driving with at most / exactly that many).
+
+    Raises
+    ------
+    Cancelled
+        When ``cancelled()`` turned true.
+
+    Notes
+    -----
+    The minimum fleet is n minus a maximum matching of the "can follow" order
+    (a minimum chain cover, Dilworth); the matching's last search gives the
+    certificate (König).  The fleet takes O(phases * n * sites) time with
+    phases O(sqrt(n)); least empty driving adds a min-cost flow on O(n * sites)
+    arcs.  Memory is O(n * sites) throughout.
+
+    References
+    ----------
+    Dilworth, "A decomposition theorem for partially ordered sets", Annals of
+    Mathematics 51(1), 1950.  Fulkerson, "Note on Dilworth's decomposition
+    theorem", Proc. AMS 7(4), 1956.
+
+    Examples
+    --------
+    >>> from shipgui.core import Job, Settings, build_day
+    >>> H = 3600
+    >>> jobs = [Job("J1", "A", "B", 8 * H, 9 * H), Job("J2", "B", "A", 9 * H + 900, 10 * H),
+    ...         Job("J3", "A", "A", 8 * H + 1800, 9 * H + 1800)]
+    >>> day = build_day(jobs, [], {("A", "B"): (1200, 2), ("B", "A"): (1200, 3)},
+    ...                 settings=Settings(turnaround=600))
+    >>> plan = solve_day(day)
+    >>> plan.vehicles, plan.route_ids(), plan.certificate_ids(), plan.verified
+    (2, [['J1', 'J2'], ['J3']], ['J1', 'J3'], True)
     """
     kernel = kernel or default_kernel()
     timings: dict[str, float] = {}

@@ -32,7 +32,48 @@ def _follows(day: Day, i: np.ndarray, j: np.ndarray) -> np.ndarray:
 
 
 def check_plan(day: Day, routes, certificate) -> list[str]:
-    """Return the list of failures (empty when the plan is proven minimum)."""
+    """Check a plan without any of the solver's code; the failures found, if any.
+
+    Parameters
+    ----------
+    day : the validated day.
+    routes : one sequence of job indices per vehicle, in time order.
+    certificate : job indices claimed pairwise unable to share a vehicle.
+
+    Returns
+    -------
+    list of str
+        Empty when every job is in exactly one route, each job in a route can
+        follow the one before it, the travel times satisfy the triangle
+        inequality (so "can follow" is transitive and routes need no more),
+        the certificate jobs are pairwise unable to follow each other in either
+        order, and there are as many of them as routes: then no plan has fewer
+        vehicles.  Else one sentence per failure.
+
+    Notes
+    -----
+    O(n + s^3 + k^2) for n jobs, s sites and k certificate jobs (the pairs are
+    checked in blocks with numpy).
+
+    References
+    ----------
+    Dilworth, "A decomposition theorem for partially ordered sets", Annals of
+    Mathematics 51(1), 1950 (an antichain as large as a chain cover proves both
+    minimum).
+
+    Examples
+    --------
+    >>> from shipgui.core import Job, Settings, build_day
+    >>> H = 3600
+    >>> jobs = [Job("J1", "A", "B", 8 * H, 9 * H), Job("J2", "B", "A", 9 * H + 900, 10 * H),
+    ...         Job("J3", "A", "A", 8 * H + 1800, 9 * H + 1800)]
+    >>> day = build_day(jobs, [], {("A", "B"): (1200, 2), ("B", "A"): (1200, 3)},
+    ...                 settings=Settings(turnaround=600))
+    >>> check_plan(day, [(0, 1), (2,)], [0, 2])
+    []
+    >>> check_plan(day, [(0, 2), (1,)], [0, 2])
+    ['vehicle 1: a job cannot follow the one before it']
+    """
     failures: list[str] = []
     n = day.n
     flat = np.array([k for route in routes for k in route], dtype=np.int64)
