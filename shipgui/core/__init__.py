@@ -4,7 +4,8 @@ spreadsheet is read or written.
 
 The folders follow the data: ``io`` reads files into checked records,
 :mod:`.day` builds the validated day, ``fleet`` computes the minimum fleet and
-its routes, ``export`` writes the results.
+its routes, ``export`` writes the results.  :mod:`.document` is the day being
+edited in the app (no Qt), :mod:`.drivers` ties driver names to routes.
 """
 
 from .clock import format_clock, format_minutes, parse_clock, parse_minutes

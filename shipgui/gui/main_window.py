@@ -31,7 +31,7 @@ from .panels.certificate_panel import CertificatePanel
 from .panels.export_progress import ExportProgress
 from .panels.inputs_panel import InputsPanel
 from .panels.jobs_panel import JobsPanel
-from .panels.problems import ProblemList
+from .panels.problems import ProblemBox
 from .panels.timeline import TimelineView
 from .recovery import offer_recovery
 from .services.autosave import Autosaver, Recovery
@@ -128,15 +128,8 @@ class MainWindow(QMainWindow):
         self.timeline = TimelineView(pixels_per_hour=self.settings.get("timeline/pixels_per_hour"))
         self.certificate = CertificatePanel()
         self.certificate.setVisible(False)
-        self.problem_list = ProblemList()
-        self.problem_heading = QLabel()
-        self.problem_heading.setStyleSheet("color: #9a2f2f; font-weight: 600;")
-        self.problem_box = QWidget()
-        box = QVBoxLayout(self.problem_box)
-        box.setContentsMargins(6, 6, 6, 6)
-        box.addWidget(self.problem_heading)
-        box.addWidget(self.problem_list, 1)
-        self.problem_box.setVisible(False)
+        self.problem_box = ProblemBox()
+        self.problem_list = self.problem_box.list  # clicked problems select their job
         self.caution = QLabel(CAUTION)
         self.caution.setObjectName("caution")
         self.caution.setWordWrap(True)
@@ -344,19 +337,16 @@ class MainWindow(QMainWindow):
         self.problems = list(problems)
         self._show_empty(f"No plan: {count(len(problems), 'problem')} in the inputs "
                          "(listed above the timeline).")
-        self.problem_heading.setText("The day cannot be planned until these are fixed "
-                                     "(edit the jobs, attach a file or change a setting):")
-        self.problem_list.set_problems(self.problems)
-        self.problem_box.setVisible(True)
+        self.problem_box.show_problems("The day cannot be planned until these are fixed "
+                                       "(edit the jobs, attach a file or change a setting):",
+                                       self.problems)
         self.plan_shown.emit(None)
 
     def _on_failure(self, text: str, details: str) -> None:
         self._show_empty(f"The solver stopped unexpectedly: {text}")
-        self.problem_heading.setText("Something went wrong inside the solver. Please report "
-                                     "it with the details below.")
-        self.problem_list.set_problems([Problem(text)])
-        self.problem_list.setToolTip(details)
-        self.problem_box.setVisible(True)
+        self.problem_box.show_problems("Something went wrong inside the solver. Please "
+                                       "report it with the details below.", [Problem(text)],
+                                       details)
         self.plan_shown.emit(None)
 
     def _on_cancelled(self) -> None:

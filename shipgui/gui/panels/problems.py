@@ -19,7 +19,7 @@ from PySide6.QtWidgets import (
 
 from shipgui.core import Problem
 
-__all__ = ["ProblemList", "ProblemsDialog"]
+__all__ = ["ProblemList", "ProblemBox", "ProblemsDialog"]
 
 _HEADINGS = ("File", "Row", "Column", "What is wrong")
 
@@ -64,6 +64,28 @@ class ProblemList(QTableWidget):
 
     def problem_texts(self) -> list[str]:
         return [self.item(r, 3).text() for r in range(self.rowCount())]
+
+
+class ProblemBox(QWidget):
+    """Above the timeline while the day cannot be planned: a heading and the list."""
+
+    def __init__(self, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.heading = QLabel()
+        self.heading.setWordWrap(True)
+        self.heading.setStyleSheet("color: #9a2f2f; font-weight: 600;")
+        self.list = ProblemList()
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(6, 6, 6, 6)
+        layout.addWidget(self.heading)
+        layout.addWidget(self.list, 1)
+        self.setVisible(False)
+
+    def show_problems(self, heading: str, problems: list[Problem], details: str = "") -> None:
+        self.heading.setText(heading)
+        self.list.set_problems(problems)
+        self.list.setToolTip(details)
+        self.setVisible(True)
 
 
 class ProblemsDialog(QDialog):
