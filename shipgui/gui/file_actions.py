@@ -289,6 +289,22 @@ class FileActions(QObject):
         return answer == buttons.Discard
 
     # ------------------------------------------------------------ export
+    def maybe_stop_export(self) -> bool:
+        """Before closing: stop a running export if the user agrees (it then writes
+        nothing); False means the user chose to wait."""
+        if not self.exports.busy:
+            return True
+        buttons = QMessageBox.StandardButton
+        answer = QMessageBox.question(
+            self.dialog_parent, "Export still running",
+            f"{self.exports.what[0].upper()}{self.exports.what[1:]} is still being written. "
+            "Stop it and close? (It will not be written.)",
+            buttons.Yes | buttons.No, buttons.No)
+        if answer != buttons.Yes:
+            return False
+        self.exports.cancel()
+        return True
+
     def _export_path(self, title: str, suffix: str, pattern: str) -> Path | None:
         stem = Path(self.document.title).stem
         path, _ = QFileDialog.getSaveFileName(self.dialog_parent, title,

@@ -459,11 +459,10 @@ class MainWindow(QMainWindow):
             self.files.open_paths(paths)
 
     def closeEvent(self, event: QCloseEvent) -> None:
-        if not self.files.maybe_save():
+        if not self.files.maybe_save() or not self.files.maybe_stop_export():
             event.ignore()
             return
         self.solver.cancel()
-        self.files.exports.cancel()  # an export cut short writes nothing
         self.autosaver.stop()
         self.settings.set("window/geometry", self.saveGeometry())
         self.settings.sync()

@@ -87,3 +87,26 @@ def test_a_plan_that_failed_its_check_is_not_exported(qtbot, small_window, tmp_p
     assert not getattr(w.files, export)()
     assert started == [] and list(tmp_path.iterdir()) == []
     assert "did not pass its independent check" in warned[0]
+
+
+def test_closing_during_an_export_asks_first(qtbot, small_window, tmp_path, monkeypatch):
+    w = small_window
+    release = threading.Event()
+
+    def slow_writer(plan, path, driver_names=None, progress=None):
+        while not release.wait(0.01):
+            progress(1, 2)
+
+    w.files.pdf_writer = slow_writer
+    _save_to(monkeypatch, tmp_path / "sheets.pdf")
+    assert w.files.export_pdf()
+    asked = []
+    answers = iter([QMessageBox.StandardButton.No, QMessageBox.StandardButton.Yes])
+    monkeypatch.setattr(QMessageBox, "question",
+                        lambda *a, **k: asked.append(a[1]) or next(answers))
+    w.show()
+    assert not w.close() and w.files.exports.busy  # "wait": the export goes on
+    with qtbot.waitSignal(w.files.exports.cancelled, timeout=WAIT_MS):
+        assert w.close()
+    release.set()
+    assert asked == ["Export still running"] * 2 and not (tmp_path / "sheets.pdf").exists()
