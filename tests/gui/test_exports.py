@@ -4,6 +4,7 @@ never for a plan that failed its independent check."""
 from __future__ import annotations
 
 import dataclasses
+import gc
 import threading
 import time
 
@@ -46,6 +47,7 @@ def test_pdf_export_leaves_the_window_working_and_can_be_cancelled(qtbot, small_
         w.export_progress.cancel.click()
     release.set()
     assert calls == [] and not (tmp_path / "sheets.pdf").exists()
+    assert gc.isenabled()
     assert w.export_progress.isHidden() and w.files.export_json_action.isEnabled()
     assert "nothing was written" in w.statusBar().currentMessage()
 
@@ -60,6 +62,7 @@ def test_real_pdf_export_reports_progress(qtbot, small_window, tmp_path, monkeyp
     assert seen and all(total == seen[0][1] for _, total in seen)
     assert [d for d, _ in seen] == sorted(d for d, _ in seen)  # it only moves forward
     assert w.statusBar().currentMessage() == "Exported day.pdf"
+    assert gc.isenabled()  # paused while the PDF was built (long pauses freeze the window)
 
 
 def test_a_failed_export_says_why(qtbot, small_window, tmp_path, monkeypatch):
