@@ -48,7 +48,8 @@ class ExportJob(QRunnable):
             raise Cancelled()
         self.signals.progress.emit(done, total)
 
-    def run(self) -> None:
+    def _outcome(self) -> tuple[str, str]:
+        """Run the writer: ("finished" | "cancelled" | "failed", reason)."""
         # A full garbage collection walks every object the PDF builder made while
         # holding the interpreter lock: 0.4-0.6 s frozen window, every 2 s, at 3 000
         # jobs.  Collection waits until the export is done (cyclic garbage only).
@@ -57,16 +58,24 @@ class ExportJob(QRunnable):
         try:
             self._write(self._progress, self._flag.is_set)
         except Cancelled:
-            self.signals.cancelled.emit()
+            return "cancelled", ""
         except OSError as exc:
-            self.signals.failed.emit(os_error_text(exc))
+            return "failed", os_error_text(exc)
         except Exception as exc:  # noqa: BLE001 - shown to the user, never raised here
-            self.signals.failed.emit(str(exc) or type(exc).__name__)
-        else:
-            self.signals.finished.emit()
+            return "failed", str(exc) or type(exc).__name__
         finally:
             if collecting:
                 gc.enable()
+        return "finished", ""
+
+    def run(self) -> None:
+        kind, reason = self._outcome()
+        if kind == "finished":
+            self.signals.finished.emit()
+        elif kind == "cancelled":
+            self.signals.cancelled.emit()
+        else:
+            self.signals.failed.emit(reason)
 
 
 class ExportController(QObject):
