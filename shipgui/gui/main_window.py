@@ -42,7 +42,6 @@ from .wording import count
 __all__ = ["MainWindow", "CAUTION"]
 
 
-
 class MainWindow(QMainWindow):
     """One open day.  ``plan`` is the plan shown, ``plan_is_current`` whether it
     matches the inputs as they are now."""
@@ -57,6 +56,7 @@ class MainWindow(QMainWindow):
         self.plan: Plan | None = None
         self.plan_is_current = False
         self._fit_when_shown = False
+        self._autosave_warned = False  # the dialog is shown once per window
         self.problems: list[Problem] = []
         self.driver_places: list[DriverPlace] = []
         self.solver = SolveController(self, delay_ms=solve_delay_ms)
@@ -175,7 +175,6 @@ class MainWindow(QMainWindow):
         self.autosave_status.setStyleSheet("color: #9a2f2f; font-weight: 600;")
         self.autosave_status.setVisible(False)
         self.statusBar().addPermanentWidget(self.autosave_status)
-        self._autosave_warned = False
 
     def _make_menus(self) -> None:
         bar = self.menuBar()
