@@ -105,3 +105,19 @@ def test_a_failed_autosave_is_said_once_in_a_dialog_and_in_the_status_bar(
     assert w.autosaver.autosave()
     assert w.autosave_status.isHidden()
     w.undo_stack.setClean()
+
+
+def test_a_save_on_a_full_disk_says_the_disk_is_full(small_window, warnings, monkeypatch,
+                                                     tmp_path):
+    from PySide6.QtWidgets import QFileDialog
+
+    from shipgui.core.io import plan_file
+
+    def disk_full(path, data):
+        raise OSError(errno.ENOSPC, "Writing canceled by application", str(path))
+
+    monkeypatch.setattr(plan_file, "write_bytes_atomic", disk_full)
+    monkeypatch.setattr(QFileDialog, "getSaveFileName",
+                        lambda *a, **k: (str(tmp_path / "day.shipgui"), ""))
+    assert not small_window.files.save_as()
+    assert warnings == ["day.shipgui was not saved: the disk is full."]
