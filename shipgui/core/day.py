@@ -15,7 +15,7 @@ from pathlib import Path
 
 import numpy as np
 
-from .clock import format_minutes
+from .clock import format_duration, format_minutes
 from .errors import InputError, ProblemCollector
 from .io.readers import read_inputs
 from .model import Day, DayInputs, Job, Settings, Site
@@ -236,7 +236,30 @@ def _check_jobs(jobs: list[Job], travel: np.ndarray, index: dict[str, int],
                 issues.add(f"job {j.id}: the vehicle is back at depot {settings.depot} "
                            f"{format_minutes(over[k])} min after the day ends",
                            jobs_file, j.row, "end")
+    if settings.max_day is not None:
+        _check_working_days(jobs, travel, origin, dest, index, settings, jobs_file, issues)
     issues.raise_if_any()
+
+
+def _check_working_days(jobs, travel, origin, dest, index, settings: Settings, jobs_file,
+                        issues: ProblemCollector) -> None:
+    """Every job alone must fit the longest working day (contract section 5)."""
+    start = np.array([j.start for j in jobs], dtype=np.int64)
+    end = np.array([j.end for j in jobs], dtype=np.int64)
+    pull_out = pull_in = np.zeros(len(jobs), dtype=np.int64)
+    if settings.depot:
+        d = index[settings.depot]
+        pull_out, pull_in = travel[d, origin], travel[dest, d]
+    own = pull_out + (end - start) + pull_in
+    limit = format_duration(settings.max_day)  # type: ignore[arg-type]
+    for k in np.flatnonzero(own > settings.max_day):
+        j = jobs[k]
+        parts = (f" (pull-out {format_duration(pull_out[k])}, the job "
+                 f"{format_duration(end[k] - start[k])}, pull-in {format_duration(pull_in[k])})"
+                 if settings.depot else "")
+        issues.add(f"job {j.id} alone makes a working day of {format_duration(own[k])}{parts}, "
+                   f"{format_minutes(own[k] - settings.max_day)} min over the longest working "
+                   f"day of {limit}", jobs_file, j.row, "end")
 
 
 def _fingerprint(jobs: list[Job], sites: dict[str, Site], site_ids: list[str],

@@ -9,8 +9,8 @@ import numpy as np
 
 from .drivers import Driver
 
-__all__ = ["Job", "Site", "Settings", "DayInputs", "Day", "Plan", "DEFAULT_SPEED_KMH",
-           "DEFAULT_CIRCUITY", "TravelPairs", "SITE_DETAILS"]
+__all__ = ["Job", "Site", "Settings", "DayInputs", "Day", "Plan", "WorkdayInfo",
+           "DEFAULT_SPEED_KMH", "DEFAULT_CIRCUITY", "TravelPairs", "SITE_DETAILS"]
 
 # Straight-line distance times a circuity factor gives road distance.  1.20 is
 # the mean road circuity measured for the USA in Ballou, Rahardja & Sakai,
@@ -173,6 +173,22 @@ class Day:
         return site.label if site else site_id
 
 
+@dataclass(frozen=True)
+class WorkdayInfo:
+    """How a plan under a working-day limit was found and what is proven about it."""
+
+    limit: int  # the longest working day, seconds
+    unlimited_vehicles: int  # the minimum fleet without the limit (proven)
+    lp_bound: float | None  # the covering LP's proven bound in vehicles (None: not run)
+    status: str  # "proven", "time limit", "stopped" (cancelled) or "node limit"
+    minimum_by_search: bool = False  # the search proved the plan minimum beyond the bound
+    nodes: int = 0  # branch-and-price nodes explored
+    routes_generated: int = 0
+    first_plan_seconds: float = 0.0
+    seconds: float = 0.0
+    deadhead_status: str = "improved"  # "least" (proven) or "improved"
+
+
 @dataclass(frozen=True, eq=False)
 class Plan:
     """A minimum-fleet plan with its certificate.
@@ -201,6 +217,7 @@ class Plan:
     # weight, no valid route carrying more than 1) then prove ceil(sum).
     bound: int | None = None
     certificate_weights: tuple[tuple[int, float], ...] = ()
+    workday: WorkdayInfo | None = None
 
     @property
     def vehicles(self) -> int:

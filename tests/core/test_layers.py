@@ -23,9 +23,10 @@ MAY_IMPORT = {
     "document": {"base", "io", "day"},
     "fleet": {"base"},
     "workday": {"base", "fleet"},
+    "planner": {"base", "fleet", "workday"},
     "export": {"base", "io", "fleet", "workday"},
     "demo": {"base", "day"},
-    "__init__": {"base", "io", "day", "fleet", "workday", "export"},
+    "__init__": {"base", "io", "day", "fleet", "workday", "planner", "export"},
 }
 
 

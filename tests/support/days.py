@@ -71,3 +71,29 @@ def tanker_day(strict: bool):
     # The day of a shipment is its delivery date, so it leaves loaded[o, d] days before.
     slots = [(o, d, (t - loaded[(o, d)]) * day_s, t * day_s) for o, d, t in shipments]
     return slot_day(slots, travel=travel, sites="ABCD", turnaround=1 if strict else 0)
+
+
+def depot_day(n: int, sites: int, *, seed: int = 0, turnaround_min: int = 10,
+              max_day_min: int | None = None, classes: int = 1, span_h: tuple = (5, 20)):
+    """A regional day with a depot (site S0 at the centre), travel from coordinates.
+
+    Sites on a 60 km square; jobs start between ``span_h`` hours; slots of the
+    drive plus 15-90 minutes.  Invented data for tests and benchmarks.
+    """
+    rng = np.random.default_rng(seed)
+    xy = rng.uniform(0, 60, (sites, 2))
+    xy[0] = (30, 30)
+    site_list = [Site(f"S{k}", x_km=float(x), y_km=float(y)) for k, (x, y) in enumerate(xy)]
+    km = np.hypot(*(xy[:, None, :] - xy[None, :, :]).transpose(2, 0, 1))
+    base = Settings()
+    secs = np.ceil(np.round(km * base.circuity / base.speed_kmh * 3600, 6)).astype(int)
+    o = rng.integers(1, sites, n)
+    d = rng.integers(1, sites, n)
+    start = rng.integers(span_h[0] * 60, span_h[1] * 60, n) * 60
+    end = start + secs[o, d] + rng.integers(15, 90, n) * 60
+    jobs = [Job(f"J{k:05d}", f"S{o[k]}", f"S{d[k]}", int(start[k]), int(end[k]),
+                vehicle_class=str(rng.integers(0, classes)) if classes > 1 else "")
+            for k in range(n)]
+    settings = Settings(turnaround=turnaround_min * 60, depot="S0",
+                        max_day=None if max_day_min is None else max_day_min * 60)
+    return build_day(jobs, site_list, {}, settings=settings)

@@ -1,0 +1,126 @@
+"""From a validated day with a working-day limit to a verified plan with a proven bound."""
+
+from __future__ import annotations
+
+import math
+import time
+from collections.abc import Callable
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..fleet.deadhead import plan_deadhead
+from ..fleet.matching import maximum_matching
+from ..model import Day, Plan, WorkdayInfo
+from .certificate import WEIGHT_TOLERANCE, clean_weights
+from .problem import WorkdayClass, workday_classes
+from .search import ClassSearch, search_class
+from .verify import check_workday_plan
+
+__all__ = ["solve_workday", "Progress", "DEFAULT_TIME_LIMIT"]
+
+DEFAULT_TIME_LIMIT = 60.0  # seconds of search before the best plan is kept
+
+
+@dataclass(frozen=True)
+class Progress:
+    """The best plan and the proven bound so far (reported as they improve)."""
+
+    vehicles: int
+    lower_bound: int
+    seconds: float
+
+
+def solve_workday(day: Day, *, time_limit: float = DEFAULT_TIME_LIMIT,
+                  cancelled: Callable[[], bool] | None = None,
+                  on_progress: Callable[[Progress], None] | None = None) -> Plan:
+    """The fewest vehicles with every route's working day within
+    ``day.settings.max_day``, with a proven lower bound, independently verified.
+
+    Stops when the plan is proven minimum, after ``time_limit`` seconds, or
+    when ``cancelled()`` turns true, and returns the best plan found (never
+    raises for a stop).  ``on_progress`` hears every improvement.
+    """
+    t0 = time.monotonic()
+    limit = int(day.settings.max_day)  # type: ignore[arg-type]
+    stop = cancelled or (lambda: False)
+    classes = workday_classes(day, limit)
+    antichains = [maximum_matching(c.index, day=day).antichain for c in classes]
+    states: list[ClassSearch | None] = [None] * len(classes)
+    best = {"vehicles": None, "bound": None}
+
+    def report(_state: ClassSearch) -> None:
+        known = [s for s in states if s is not None]
+        vehicles = sum(s.vehicles for s in known)
+        bound = sum(s.bound for s in known)
+        if len(known) == len(classes) and (vehicles, bound) != (best["vehicles"], best["bound"]):
+            best.update(vehicles=vehicles, bound=bound)
+            if on_progress is not None:
+                on_progress(Progress(vehicles, bound, time.monotonic() - t0))
+
+    sizes = np.array([c.m for c in classes], dtype=float) + 1.0
+    for k, problem in enumerate(classes):
+        share = sizes[k] / sizes[k:].sum()
+        deadline = time.monotonic() + max(0.0, t0 + time_limit - time.monotonic()) * share
+
+        def keep(state: ClassSearch, k=k) -> None:
+            states[k] = state
+            report(state)
+
+        states[k] = search_class(day, problem, antichains[k], deadline=deadline, stop=stop,
+                                 report=keep)
+    return _plan(day, classes, states, antichains, limit, t0, stopped=stop())  # type: ignore
+
+
+def _plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
+          antichains: list[np.ndarray], limit: int, t0: float, stopped: bool) -> Plan:
+    routes = [tuple(int(c.jobs[k]) for k in r) for c, s in zip(classes, states) for r in s.routes]
+    routes.sort(key=lambda r: (int(day.start[r[0]]), r[0]))
+    certificate, weights = _certificate(day, classes, states, antichains)
+    bound = max(len(certificate),
+                math.ceil(sum(w for _, w in weights) - WEIGHT_TOLERANCE) if weights else 0)
+    failures = check_workday_plan(day, routes, certificate, dict(weights) or None, bound, limit)
+    total, per_route = plan_deadhead(day, routes)
+    finished = all(s.finished for s in states)
+    status = "proven" if finished else ("stopped" if stopped else "time limit")
+    info = WorkdayInfo(
+        limit=limit, unlimited_vehicles=sum(len(a) for a in antichains),
+        lp_bound=None if any(s.lp_bound is None for s in states)
+        else sum(s.lp_bound for s in states), status=status,
+        minimum_by_search=finished and bound < len(routes),
+        nodes=sum(s.nodes for s in states),
+        routes_generated=sum(s.routes_generated for s in states),
+        first_plan_seconds=max((s.first_plan_seconds for s in states), default=0.0),
+        seconds=time.monotonic() - t0)
+    certificate.sort(key=lambda k: (int(day.start[k]), k))
+    return Plan(day, tuple(routes), tuple(certificate), not failures,
+                {"working-day search": info.seconds}, "branch-and-price",
+                deadhead_seconds=total, route_deadhead_seconds=per_route,
+                verification_failures=tuple(failures), bound=bound,
+                certificate_weights=tuple(weights), workday=info)
+
+
+def _certificate(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
+                 antichains: list[np.ndarray]) -> tuple[list[int], list[tuple[int, float]]]:
+    """Jobs pairwise not fitting one working day, and weights when they prove more.
+
+    Per class the stronger of the two is used: the pairwise set counts as weight
+    1 per job in the weights (a route holds at most one of them).
+    """
+    jobs: list[int] = []
+    weights: list[tuple[int, float]] = []
+    weights_help = False
+    for problem, state in zip(classes, states):
+        pairs = state.pairwise
+        jobs.extend(int(problem.jobs[k]) for k in pairs)
+        duals = None if state.weights is None else clean_weights(problem, state.weights)
+        if duals is not None and duals.sum() > len(pairs) + WEIGHT_TOLERANCE:
+            weights_help = True
+            weights.extend((int(problem.jobs[k]), float(duals[k]))
+                           for k in np.flatnonzero(duals > 0))
+        else:
+            weights.extend((int(problem.jobs[k]), 1.0) for k in pairs)
+    if not weights_help or math.ceil(sum(w for _, w in weights) - WEIGHT_TOLERANCE) <= len(jobs):
+        return jobs, []
+    weights.sort(key=lambda item: (int(day.start[item[0]]), item[0]))
+    return jobs, weights
