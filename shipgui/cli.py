@@ -20,7 +20,13 @@ from pathlib import Path
 from shipgui import __version__
 from shipgui.core import InputError, Settings, format_clock, format_minutes, solve_day
 from shipgui.core.caution import CAUTION
-from shipgui.core.clock import format_day_clock, format_duration, parse_clock, parse_minutes
+from shipgui.core.clock import (
+    format_day_clock,
+    format_duration,
+    parse_clock,
+    parse_length,
+    parse_minutes,
+)
 from shipgui.core.day import build_inputs
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
 from shipgui.core.export.plan_json import plan_to_json
@@ -31,6 +37,7 @@ from shipgui.core.io.plan_file import PLAN_SUFFIX, read_plan_file
 from shipgui.core.io.readers import read_inputs
 from shipgui.core.io.tables import parse_delimiter
 from shipgui.core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, DayInputs, Plan
+from shipgui.core.planner import DEFAULT_TIME_LIMIT
 
 
 class UsageError(Exception):
@@ -121,6 +128,14 @@ def _add_common(p: argparse.ArgumentParser) -> None:
     p.add_argument("--date", metavar="YYYY-MM-DD", type=_plan_date,
                    help="the plan's date, printed on every page (default: the date of the "
                    "jobs file's date-times, if it has any)")
+    p.add_argument("--max-day", metavar="H:MM",
+                   help="longest working day of one vehicle and its driver, depot to depot "
+                   "(e.g. 11:00 or 660 minutes; default: no limit). Drivers' hours and rest "
+                   "rules are set by local law: this is your input, never a legal default")
+    p.add_argument("--time-limit", metavar="S", type=_number("--time-limit", 0.1, 86400),
+                   default=DEFAULT_TIME_LIMIT,
+                   help="seconds the search may run with --max-day before it keeps the best "
+                   f"plan found (default {DEFAULT_TIME_LIMIT:g}; it stops earlier once proven)")
     p.add_argument("--least-deadhead", action=argparse.BooleanOptionalAction, default=True,
                    help="among minimum-fleet plans, pick one with the least empty driving "
                    "(default; --no-least-deadhead keeps any minimum-fleet routes)")
@@ -153,8 +168,14 @@ def _settings(args: argparse.Namespace, base: Settings) -> Settings:
             raise UsageError(f"{option}: give a clock time HH:MM")
         return value.seconds
     given = {name: getattr(args, name, None) for name in
-             ("turnaround", "depot", "day_start", "day_end", "speed", "circuity")}
+             ("turnaround", "depot", "day_start", "day_end", "speed", "circuity", "max_day")}
     args = argparse.Namespace(**given)
+    max_day = base.max_day
+    if args.max_day is not None:
+        try:
+            max_day = parse_length(args.max_day)
+        except ValueError as exc:
+            raise UsageError(f"--max-day: {exc}") from None
     turnaround = base.turnaround
     if args.turnaround is not None:
         try:
@@ -177,7 +198,7 @@ def _settings(args: argparse.Namespace, base: Settings) -> Settings:
     if not (math.isfinite(circuity) and circuity >= 1):
         raise UsageError("--circuity must be at least 1")
     return replace(base, turnaround=turnaround, depot=depot, day_start=day_start,
-                   day_end=day_end, speed_kmh=speed, circuity=circuity)
+                   day_end=day_end, speed_kmh=speed, circuity=circuity, max_day=max_day)
 
 
 OUTPUT_OPTIONS = ("json", "pdf", "routes")
@@ -280,12 +301,16 @@ def _summary(plan: Plan, label: str, args: argparse.Namespace | None = None) -> 
         lines.append("PLAN FAILED ITS INDEPENDENT CHECK - do not use it:")
         lines.extend(f"  {f}" for f in plan.verification_failures)
         return "\n".join(lines)
-    lines.append(f"Vehicles needed: {plan.vehicles} (minimum; independently verified)")
+    if plan.workday is None:
+        lines.append(f"Vehicles needed: {plan.vehicles} (minimum; independently verified)")
+    else:
+        lines += _workday_lines(plan)
     counts = class_counts(plan)
     if len(counts) > 1:
         lines.append("  by class: " + ", ".join(f"{name or '(no class)'} {count}"
                                                 for name, count in counts))
-    lines += _certificate_lines(plan, args)
+    lines += _certificate_lines(plan, args) if not plan.certificate_weights \
+        else _weights_lines(plan, args)
     lines += _deadhead_lines(plan)
     for w in day.warnings:
         lines.append(f"Warning: {w}")
@@ -299,12 +324,65 @@ def _summary(plan: Plan, label: str, args: argparse.Namespace | None = None) -> 
     return "\n".join(lines)
 
 
+def _search_progress():
+    """Improvements of the working-day search, on a terminal only (stderr)."""
+    if not sys.stderr.isatty():
+        return None
+
+    def show(progress) -> None:
+        print(f"  searching: {progress.vehicles} vehicles planned, at least "
+              f"{progress.lower_bound} needed ({progress.seconds:.1f} s)", file=sys.stderr)
+    return show
+
+
+def _workday_lines(plan: Plan) -> list[str]:
+    """The answer under a working-day limit: what is planned and what is proven."""
+    info = plan.workday
+    limit = format_duration(info.limit)
+    lines = [f"Longest working day: {limit}, depot to depot (your setting; drivers' hours "
+             "and rest rules are local law)"]
+    if plan.proven_minimum:
+        lines.append(f"Vehicles needed: {plan.vehicles} (proven minimum with working days of "
+                     f"at most {limit}; independently verified)")
+    else:
+        why = {"time limit": f"the search stopped at the time limit ({info.seconds:.0f} s)",
+               "stopped": "the search was stopped",
+               "proven": "the search went through every possibility"}.get(info.status,
+                                                                         info.status)
+        lines.append(f"Vehicles: {plan.vehicles} planned, at least {plan.lower_bound} needed "
+                     f"({why}; plan independently verified)")
+        if info.minimum_by_search:
+            lines.append(f"  {plan.vehicles} is the minimum: the search found no plan with "
+                         "fewer, though the printed proof only reaches "
+                         f"{plan.lower_bound}")
+    extra = plan.vehicles - info.unlimited_vehicles
+    lines.append(f"Without the limit: {info.unlimited_vehicles} vehicles; the limit costs "
+                 f"{extra} more" if extra else
+                 f"Without the limit: {info.unlimited_vehicles} vehicles; the limit costs none")
+    return lines
+
+
+def _weights_lines(plan: Plan, args: argparse.Namespace | None) -> list[str]:
+    """The proof by weights: how to read it and where the numbers are."""
+    total = sum(w for _, w in plan.certificate_weights)
+    where = ("the JSON (certificate.weights)" if args is not None and args.json
+             else "the JSON (--json FILE, key certificate.weights)")
+    if args is not None and args.pdf:
+        where += " and the PDF's proof pages"
+    return [f"Why not fewer: {len(plan.certificate_weights)} jobs carry weights that add up "
+            f"to {total:.2f}, and no working day within the limit carries more than 1 of "
+            f"them, so at least {plan.lower_bound} vehicles are needed; the weights are in "
+            f"{where}"]
+
+
 def _certificate_lines(plan: Plan, args: argparse.Namespace | None) -> list[str]:
     """The proof's jobs, ten to a line; a long list is cut and says where it is whole."""
     ids = plan.certificate_ids()
     jobs = "job" if len(ids) == 1 else "jobs"
-    lines = [f"Why not fewer: these {len(ids)} {jobs} pairwise cannot share a vehicle, "
-             "so each needs its own:"]
+    reason = ("pairwise do not fit one working day (one cannot follow the other, or "
+              "together they make too long a day)" if plan.workday is not None
+              else "pairwise cannot share a vehicle")
+    lines = [f"Why not fewer: these {len(ids)} {jobs} {reason}, so each needs its own:"]
     shown = ids if len(ids) <= CERTIFICATE_IDS_SHOWN else ids[:CERTIFICATE_IDS_SHOWN]
     for k in range(0, len(shown), 10):
         lines.append("  " + " ".join(shown[k:k + 10]))
@@ -321,6 +399,8 @@ def _certificate_lines(plan: Plan, args: argparse.Namespace | None) -> list[str]
 def _deadhead_lines(plan: Plan) -> list[str]:
     """Empty driving, and what more vehicles would save (each figure printed once)."""
     least = f" (the least possible with {plan.vehicles} vehicles)" if plan.least_deadhead else ""
+    if plan.workday is not None and not plan.least_deadhead:
+        least = " (not proven least for this fleet)"
     lines = [f"Empty driving: {format_duration(plan.deadhead_seconds)} in all{least}"]
     for row in tradeoff_rows(plan, MAX_TRADEOFF)[1:]:
         note = f" (all {row.vehicles} out: {format_duration(row.exactly)})" \
@@ -384,7 +464,8 @@ def _run_solve(args: argparse.Namespace, files: dict[str, str | None], base: Set
     t0 = time.perf_counter()
     day = build_inputs(_read(args, files, base))
     t1 = time.perf_counter()
-    plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=args.tradeoff)
+    plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=args.tradeoff,
+                     time_limit=args.time_limit, on_progress=_search_progress())
     if not plan.verified:
         print(_summary(plan, label), file=sys.stderr)
         return 1

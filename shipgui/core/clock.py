@@ -13,7 +13,8 @@ import re
 from datetime import date, datetime, time, timedelta
 from decimal import Decimal, InvalidOperation
 
-__all__ = ["ClockValue", "parse_clock", "parse_minutes", "format_clock", "format_clock_or_none",
+__all__ = ["ClockValue", "parse_clock", "parse_minutes", "parse_length", "MAX_WORKING_DAY",
+           "format_clock", "format_clock_or_none",
            "format_day_clock", "day_mark", "format_minutes", "format_duration", "shown_minutes",
            "minutes_value", "resolve_clock"]
 
@@ -86,6 +87,33 @@ def parse_minutes(text: str, *, allow_zero: bool = True) -> int:
     if value > 100_000:
         raise ValueError(f"'{text}' minutes is more than two months; check the value")
     return int(math.ceil(value * 60))
+
+
+_LENGTH = re.compile(r"^(\d{1,2}):(\d{2})$")
+MAX_WORKING_DAY = 24 * 3600  # one driver cannot work longer than a day
+
+
+def parse_length(text: str) -> int:
+    """A length of time as ``H:MM`` (11:00) or minutes (660, 612.5): whole seconds.
+
+    For the longest working day; from more than 0 up to 24 hours.  Raises
+    ``ValueError`` with a dispatcher-readable reason.
+    """
+    text = text.strip()
+    m = _LENGTH.match(text)
+    if m:
+        if int(m[2]) > 59:
+            raise ValueError(f"'{text}': minutes go up to 59")
+        seconds = int(m[1]) * 3600 + int(m[2]) * 60
+    else:
+        try:
+            seconds = parse_minutes(text, allow_zero=False)
+        except ValueError:
+            raise ValueError(f"'{text}' is not a length of time; write H:MM (11:00) or "
+                             "minutes (660)") from None
+    if not 0 < seconds <= MAX_WORKING_DAY:
+        raise ValueError(f"'{text}': a working day is more than 0 and at most 24 hours")
+    return seconds
 
 
 def format_clock(seconds: int | float) -> str:

@@ -31,6 +31,8 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
                              for (k, d), (_, e) in zip(plan.tradeoff, plan.tradeoff_exact)]
     if cost_model is not None:
         extra["cost_model"] = cost_model
+    if plan.workday is not None:
+        extra["working_day"] = _working_day(plan)
     return {
         "vehicles": plan.vehicles,
         "vehicles_by_class": [{"vehicle_class": name, "vehicles": count}
@@ -54,8 +56,29 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
             "day_end": format_clock_or_none(day.settings.day_end),
             "speed_kmh": day.settings.speed_kmh,
             "circuity": day.settings.circuity,
+            "max_day_minutes": None if day.settings.max_day is None
+            else _minutes(day.settings.max_day),
         },
         **extra,
+    }
+
+
+def _working_day(plan: Plan) -> dict:
+    """How the plan under a working-day limit was found and what is proven."""
+    info = plan.workday
+    return {
+        "limit_minutes": _minutes(info.limit),
+        "vehicles_without_limit": info.unlimited_vehicles,
+        "lp_bound": None if info.lp_bound is None else round(info.lp_bound, 6),
+        "search": info.status,  # proven, time limit, stopped
+        "minimum_by_search": info.minimum_by_search,
+        "search_nodes": info.nodes,
+        "routes_generated": info.routes_generated,
+        "seconds": round(info.seconds, 3),
+        "first_plan_seconds": round(info.first_plan_seconds, 3),
+        # "least": proven least empty driving for this many vehicles; "improved":
+        # less than the first plan found, not proven least
+        "deadhead": info.deadhead_status,
     }
 
 
