@@ -133,16 +133,21 @@ def heaviest_routes(problem: WorkdayClass, weight: np.ndarray, *,
 
     Only jobs of positive weight (and jobs tied by a rule) take part: any other
     job can be dropped from a route without lowering its weight or breaking it
-    (:mod:`.problem`).  Routes heavier than ``threshold`` are returned, at most
-    ``max_routes`` of them (by the kernel's buffer).  ``link_costs`` =
-    (lam, link[j, g] per class-local job and full group, pull_out, pull_in)
-    makes each route also pay lam times its empty driving.
+    (:mod:`.problem`), unless a rule forbids a pair or a job's place.  Routes
+    heavier than ``threshold`` are returned, at most ``max_routes`` of them (by
+    the kernel's buffer).  ``link_costs`` = (lam, link[j, g] per class-local job
+    and full group, pull_out, pull_in) makes each route also pay lam times its
+    empty driving.
     """
     m = problem.m
     heaviest = np.full(m, NEG)
     positive = weight > _EPS
     if rules is not None and not rules.empty:
         positive[rules.tied_jobs()] = True
+        if rules.forbidden or rules.flags.any():
+            # A job of no weight can bridge a forbidden pair (i, then it, then j) or
+            # start a route in place of a job that may not: all jobs take part.
+            positive[:] = True
     active = np.flatnonzero(positive)
     if len(active) == 0:
         return Priced(heaviest, [])
