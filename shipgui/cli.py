@@ -399,8 +399,11 @@ def _certificate_lines(plan: Plan, args: argparse.Namespace | None) -> list[str]
 def _deadhead_lines(plan: Plan) -> list[str]:
     """Empty driving, and what more vehicles would save (each figure printed once)."""
     least = f" (the least possible with {plan.vehicles} vehicles)" if plan.least_deadhead else ""
-    if plan.workday is not None and not plan.least_deadhead:
-        least = " (not proven least for this fleet)"
+    if plan.workday is not None:
+        least = {"proven least": f" (the least possible with {plan.vehicles} vehicles "
+                                 "within the working day)",
+                 "improved": " (improved; not proven least for this fleet)"}.get(
+            plan.workday.deadhead_status, " (not optimised: no time was left)")
     lines = [f"Empty driving: {format_duration(plan.deadhead_seconds)} in all{least}"]
     for row in tradeoff_rows(plan, MAX_TRADEOFF)[1:]:
         note = f" (all {row.vehicles} out: {format_duration(row.exactly)})" \

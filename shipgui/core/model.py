@@ -186,7 +186,8 @@ class WorkdayInfo:
     routes_generated: int = 0
     first_plan_seconds: float = 0.0
     seconds: float = 0.0
-    deadhead_status: str = "improved"  # "least" (proven) or "improved"
+    # "proven least" (for this many vehicles), "improved" or "not optimised"
+    deadhead_status: str = "not optimised"
 
 
 @dataclass(frozen=True, eq=False)

@@ -76,8 +76,8 @@ def _working_day(plan: Plan) -> dict:
         "routes_generated": info.routes_generated,
         "seconds": round(info.seconds, 3),
         "first_plan_seconds": round(info.first_plan_seconds, 3),
-        # "least": proven least empty driving for this many vehicles; "improved":
-        # less than the first plan found, not proven least
+        # "proven least": least empty driving for this many vehicles; "improved":
+        # searched, not proven least; "not optimised": no time was left for it
         "deadhead": info.deadhead_status,
     }
 

@@ -53,6 +53,7 @@ class ClassSearch:
     finished: bool = False  # proven minimum (by the bound or by the search)
     nodes: int = 0
     routes_generated: int = 0
+    pool: list[np.ndarray] = field(default_factory=list)  # routes generated, for later use
     first_plan_seconds: float = 0.0
     events: list[str] = field(default_factory=list)
 
@@ -152,6 +153,7 @@ def _closed(state: ClassSearch) -> bool:
 
 def _finish(state: ClassSearch, master: Master) -> ClassSearch:
     state.routes_generated = len(master)
+    state.pool = master.routes
     _closed(state)
     return state
 

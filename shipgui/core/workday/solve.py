@@ -13,13 +13,15 @@ from ..fleet.deadhead import plan_deadhead
 from ..fleet.matching import maximum_matching
 from ..model import Day, Plan, WorkdayInfo
 from .certificate import WEIGHT_TOLERANCE, clean_weights
+from .deadhead import less_deadhead
 from .problem import WorkdayClass, workday_classes
-from .search import ClassSearch, search_class
+from .search import LP_JOBS, ClassSearch, search_class
 from .verify import check_workday_plan
 
 __all__ = ["solve_workday", "Progress", "DEFAULT_TIME_LIMIT"]
 
 DEFAULT_TIME_LIMIT = 60.0  # seconds of search before the best plan is kept
+_DEADHEAD_SHARE = 0.15  # at most this share of the time limit goes to less empty driving
 
 
 @dataclass(frozen=True)
@@ -69,11 +71,33 @@ def solve_workday(day: Day, *, time_limit: float = DEFAULT_TIME_LIMIT,
 
         states[k] = search_class(day, problem, antichains[k], deadline=deadline, stop=stop,
                                  report=keep)
-    return _plan(day, classes, states, antichains, limit, t0, stopped=stop())  # type: ignore
+    status = _less_deadhead(day, classes, states, t0, time_limit, stop)  # type: ignore[arg-type]
+    return _plan(day, classes, states, antichains, limit, t0, stopped=stop(),  # type: ignore
+                 deadhead_status=status)
+
+
+def _less_deadhead(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
+                   t0: float, time_limit: float, stop: Callable[[], bool]) -> str:
+    """Less empty driving for each class's fleet, in the time left (at most a share)."""
+    depot = None if day.settings.depot is None else day.site_index[day.settings.depot]
+    end = min(t0 + time_limit, time.monotonic() + max(2.0, _DEADHEAD_SHARE * time_limit))
+    proven, improved = True, False
+    for k, (problem, state) in enumerate(zip(classes, states)):
+        left = end - time.monotonic()
+        if left <= 0 or stop() or problem.m > LP_JOBS:
+            return "improved" if improved else "not optimised"
+        share = problem.m / max(1, sum(c.m for c in classes[k:]))
+        result = less_deadhead(problem, day.travel, depot, state.routes, state.pool,
+                               deadline=time.monotonic() + left * share, stop=stop)
+        improved = improved or result.routes is not state.routes
+        state.routes = result.routes
+        proven = proven and result.proven_least
+    return "proven least" if proven else ("improved" if improved else "not optimised")
 
 
 def _plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
-          antichains: list[np.ndarray], limit: int, t0: float, stopped: bool) -> Plan:
+          antichains: list[np.ndarray], limit: int, t0: float, stopped: bool,
+          deadhead_status: str) -> Plan:
     routes = [tuple(int(c.jobs[k]) for k in r) for c, s in zip(classes, states) for r in s.routes]
     routes.sort(key=lambda r: (int(day.start[r[0]]), r[0]))
     certificate, weights = _certificate(day, classes, states, antichains)
@@ -91,11 +115,12 @@ def _plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
         nodes=sum(s.nodes for s in states),
         routes_generated=sum(s.routes_generated for s in states),
         first_plan_seconds=max((s.first_plan_seconds for s in states), default=0.0),
-        seconds=time.monotonic() - t0)
+        seconds=time.monotonic() - t0, deadhead_status=deadhead_status)
     certificate.sort(key=lambda k: (int(day.start[k]), k))
     return Plan(day, tuple(routes), tuple(certificate), not failures,
                 {"working-day search": info.seconds}, "branch-and-price",
                 deadhead_seconds=total, route_deadhead_seconds=per_route,
+                least_deadhead=deadhead_status == "proven least",
                 verification_failures=tuple(failures), bound=bound,
                 certificate_weights=tuple(weights), workday=info)
 
