@@ -347,6 +347,8 @@ def _workday_lines(plan: Plan) -> list[str]:
     else:
         why = {"time limit": f"the search stopped at the time limit ({info.seconds:.0f} s)",
                "stopped": "the search was stopped",
+               "too large": "a day this large gets a fast plan and bound only, without the "
+                            "full search",
                "proven": "the search went through every possibility"}.get(info.status,
                                                                          info.status)
         lines.append(f"Vehicles: {plan.vehicles} planned, at least {plan.lower_bound} needed "

@@ -180,7 +180,9 @@ class WorkdayInfo:
     limit: int  # the longest working day, seconds
     unlimited_vehicles: int  # the minimum fleet without the limit (proven)
     lp_bound: float | None  # the covering LP's proven bound in vehicles (None: not run)
-    status: str  # "proven", "time limit", "stopped" (cancelled) or "node limit"
+    # "proven"; "time limit"; "stopped" (cancelled); "too large" (a class has more
+    # jobs than the LP search takes: fast plan and split-day bound only)
+    status: str
     minimum_by_search: bool = False  # the search proved the plan minimum beyond the bound
     nodes: int = 0  # branch-and-price nodes explored
     routes_generated: int = 0

@@ -218,3 +218,25 @@ def test_every_valid_route_of_a_plan_is_in_the_reference_list():
     plan = solve_day(day, time_limit=10)
     routes = set(valid_routes(day, day.settings.max_day))
     assert all(tuple(r) in routes for r in plan.routes)
+
+
+# ------------------------------------------------------------- properties
+
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+
+@settings(max_examples=60, deadline=None)
+@given(seed=st.integers(0, 10_000), n=st.integers(1, 18), depot=st.booleans(),
+       slack=st.integers(0, 600))
+def test_every_plan_is_valid_and_its_bound_sits_between_the_plain_minimum_and_the_plan(
+        seed, n, depot, slack):
+    base = depot_day(n, 5, seed=seed, span_h=(6, 14)) if depot else \
+        random_day(n, 4, seed=seed, horizon_min=480)
+    own = max(working_days(base, [[k] for k in range(base.n)])) // 60 + 1
+    day = with_limit(base, own + slack)
+    plan = solve_day(day, time_limit=20)
+    _check(plan)
+    plain = solve_day(base)
+    assert plain.vehicles <= plan.lower_bound <= plan.vehicles
+    assert plan.workday.unlimited_vehicles == plain.vehicles

@@ -70,7 +70,7 @@ def _working_day(plan: Plan) -> dict:
         "limit_minutes": _minutes(info.limit),
         "vehicles_without_limit": info.unlimited_vehicles,
         "lp_bound": None if info.lp_bound is None else round(info.lp_bound, 6),
-        "search": info.status,  # proven, time limit, stopped
+        "search": info.status,  # proven, time limit, stopped, too large
         "minimum_by_search": info.minimum_by_search,
         "search_nodes": info.nodes,
         "routes_generated": info.routes_generated,

@@ -21,7 +21,10 @@ from .verify import check_workday_plan
 __all__ = ["solve_workday", "Progress", "DEFAULT_TIME_LIMIT"]
 
 DEFAULT_TIME_LIMIT = 60.0  # seconds of search before the best plan is kept
-_DEADHEAD_SHARE = 0.15  # at most this share of the time limit goes to less empty driving
+# Less empty driving gets at most this share of the time limit, and at most half
+# a second plus this much per job: a plan with fewer vehicles matters more.
+_DEADHEAD_SHARE = 0.15
+_DEADHEAD_SECONDS_PER_JOB = 0.005
 
 
 @dataclass(frozen=True)
@@ -80,7 +83,9 @@ def _less_deadhead(day: Day, classes: list[WorkdayClass], states: list[ClassSear
                    t0: float, time_limit: float, stop: Callable[[], bool]) -> str:
     """Less empty driving for each class's fleet, in the time left (at most a share)."""
     depot = None if day.settings.depot is None else day.site_index[day.settings.depot]
-    end = min(t0 + time_limit, time.monotonic() + max(2.0, _DEADHEAD_SHARE * time_limit))
+    total = sum(c.m for c in classes)
+    cap = min(_DEADHEAD_SHARE * time_limit, 0.5 + _DEADHEAD_SECONDS_PER_JOB * total)
+    end = min(t0 + time_limit, time.monotonic() + cap)
     proven, improved = True, False
     for k, (problem, state) in enumerate(zip(classes, states)):
         left = end - time.monotonic()
@@ -106,7 +111,8 @@ def _plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
     failures = check_workday_plan(day, routes, certificate, dict(weights) or None, bound, limit)
     total, per_route = plan_deadhead(day, routes)
     finished = all(s.finished for s in states)
-    status = "proven" if finished else ("stopped" if stopped else "time limit")
+    status = ("proven" if finished else "stopped" if stopped
+              else "too large" if any(s.too_large for s in states) else "time limit")
     info = WorkdayInfo(
         limit=limit, unlimited_vehicles=sum(len(a) for a in antichains),
         lp_bound=None if any(s.lp_bound is None for s in states)
