@@ -240,3 +240,31 @@ def test_every_plan_is_valid_and_its_bound_sits_between_the_plain_minimum_and_th
     plain = solve_day(base)
     assert plain.vehicles <= plan.lower_bound <= plan.vehicles
     assert plan.workday.unlimited_vehicles == plain.vehicles
+
+
+@pytest.mark.parametrize("seed, limit_min", [(1, 360), (54, 420), (97, 351), (123, 420),
+                                             (128, 420)])
+def test_branch_and_price_alone_reaches_the_milp_minimum(seed, limit_min):
+    # Days whose LP is fractional (x.5 vehicles): branching on consecutive jobs,
+    # from the best-fit plan only (no diving, no integer plan over routes), must
+    # end with the minimum of scipy's milp over all valid routes and close.
+    import time
+
+    from shipgui.core.workday.branch import branch_and_price
+    from shipgui.core.workday.greedy import greedy_routes
+    from shipgui.core.workday.master import Master
+    from shipgui.core.workday.problem import workday_classes
+    day = with_limit(depot_day(24, 5, seed=seed, span_h=(5, 13)), limit_min)
+    problem = workday_classes(day, limit_min * 60)[0]
+    master = Master(problem.m)
+    master.add([np.array([j]) for j in range(problem.m)])
+    start = greedy_routes(problem, day.travel)
+    master.add(start)
+    deadline = time.monotonic() + 60
+    outcome = branch_and_price(problem, master, len(start),
+                               time_up=lambda: time.monotonic() > deadline)
+    best = outcome.plan if outcome.plan is not None else start
+    assert outcome.closed
+    assert len(best) == minimum_by_milp(day, limit_min * 60)
+    covered = sorted(int(k) for r in best for k in r)
+    assert covered == list(range(problem.m))
