@@ -268,3 +268,15 @@ def test_branch_and_price_alone_reaches_the_milp_minimum(seed, limit_min):
     assert len(best) == minimum_by_milp(day, limit_min * 60)
     covered = sorted(int(k) for r in best for k in r)
     assert covered == list(range(problem.m))
+
+
+@pytest.mark.parametrize("seed", range(8))
+def test_vehicle_classes_are_planned_apart_and_add_up(seed):
+    base = depot_day(11, 5, seed=seed, span_h=(6, 13), classes=2)
+    own = max(working_days(base, [[k] for k in range(base.n)])) // 60 + 1
+    day = with_limit(base, own + 60)
+    plan = solve_day(day, time_limit=20)
+    _check(plan)
+    assert plan.vehicles == minimum_by_subsets(day, day.settings.max_day)
+    for route in plan.routes:
+        assert len({day.jobs[k].vehicle_class for k in route}) == 1

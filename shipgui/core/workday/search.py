@@ -37,7 +37,7 @@ from .greedy import greedy_routes
 from .master import Master, ceil_bound, cover_to_routes
 from .problem import WorkdayClass
 
-__all__ = ["ClassSearch", "search_class", "LP_JOBS"]
+__all__ = ["ClassSearch", "start_class", "search_class", "LP_JOBS"]
 
 LP_JOBS = 3000  # column generation up to this many jobs in a class
 
@@ -65,29 +65,30 @@ class ClassSearch:
         return len(self.routes)
 
 
-def search_class(day: Day, problem: WorkdayClass, antichain: np.ndarray, *,
-                 deadline: float, stop: Callable[[], bool],
-                 report: Callable[[ClassSearch], None]) -> ClassSearch:
-    """Search one class until its plan is proven minimum, ``deadline`` passes
-    (``time.monotonic()``) or ``stop()`` says so.  ``antichain``: the plain
-    certificate without the limit (class-local jobs)."""
+def start_class(day: Day, problem: WorkdayClass, antichain: np.ndarray) -> ClassSearch:
+    """The fast part for one class: a best-fit plan and the split-day bound.
+    ``antichain``: the plain certificate without the limit (class-local jobs)."""
     t0 = time.monotonic()
-
-    def time_up() -> bool:
-        return time.monotonic() >= deadline or stop()
-
     plan = greedy_routes(problem, day.travel)
     state = ClassSearch(plan, np.asarray(antichain, dtype=np.int64), len(antichain), None,
                         None, first_plan_seconds=time.monotonic() - t0)
-    report(state)
-    if problem.m == 0 or _closed(state):
+    if problem.m and not _closed(state):
+        _raise_pairwise(state, epoch_set(day, problem))
+    state.too_large = problem.m > LP_JOBS
+    return state
+
+
+def search_class(day: Day, problem: WorkdayClass, state: ClassSearch, *,
+                 deadline: float, stop: Callable[[], bool],
+                 report: Callable[[ClassSearch], None]) -> ClassSearch:
+    """Search on from :func:`start_class` until the plan is proven minimum,
+    ``deadline`` passes (``time.monotonic()``) or ``stop()`` says so."""
+    def time_up() -> bool:
+        return time.monotonic() >= deadline or stop()
+
+    if problem.m == 0 or _closed(state) or time_up() or state.too_large:
         return state
-    _raise_pairwise(state, epoch_set(day, problem))
-    report(state)
-    if problem.m > LP_JOBS:
-        state.too_large = True
-    if _closed(state) or time_up() or state.too_large:
-        return state
+    plan = state.routes
     master = Master(problem.m)
     master.add([np.array([j], dtype=np.int64) for j in range(problem.m)])
     master.add(plan)

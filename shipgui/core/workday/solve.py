@@ -15,7 +15,7 @@ from ..model import Day, Plan, WorkdayInfo
 from .certificate import WEIGHT_TOLERANCE, clean_weights
 from .deadhead import less_deadhead
 from .problem import WorkdayClass, workday_classes
-from .search import LP_JOBS, ClassSearch, search_class
+from .search import LP_JOBS, ClassSearch, search_class, start_class
 from .verify import check_workday_plan
 
 __all__ = ["solve_workday", "Progress", "DEFAULT_TIME_LIMIT"]
@@ -51,29 +51,24 @@ def solve_workday(day: Day, *, time_limit: float = DEFAULT_TIME_LIMIT,
     stop = cancelled or (lambda: False)
     classes = workday_classes(day, limit)
     antichains = [maximum_matching(c.index, day=day).antichain for c in classes]
-    states: list[ClassSearch | None] = [None] * len(classes)
+    states = [start_class(day, c, a) for c, a in zip(classes, antichains)]
     best = {"vehicles": None, "bound": None}
 
-    def report(_state: ClassSearch) -> None:
-        known = [s for s in states if s is not None]
-        vehicles = sum(s.vehicles for s in known)
-        bound = sum(s.bound for s in known)
-        if len(known) == len(classes) and (vehicles, bound) != (best["vehicles"], best["bound"]):
+    def report(_state: ClassSearch | None = None) -> None:
+        vehicles = sum(s.vehicles for s in states)
+        bound = sum(s.bound for s in states)
+        if (vehicles, bound) != (best["vehicles"], best["bound"]):
             best.update(vehicles=vehicles, bound=bound)
             if on_progress is not None:
                 on_progress(Progress(vehicles, bound, time.monotonic() - t0))
 
+    report()
     sizes = np.array([c.m for c in classes], dtype=float) + 1.0
     for k, problem in enumerate(classes):
         share = sizes[k] / sizes[k:].sum()
         deadline = time.monotonic() + max(0.0, t0 + time_limit - time.monotonic()) * share
-
-        def keep(state: ClassSearch, k=k) -> None:
-            states[k] = state
-            report(state)
-
-        states[k] = search_class(day, problem, antichains[k], deadline=deadline, stop=stop,
-                                 report=keep)
+        states[k] = search_class(day, problem, states[k], deadline=deadline, stop=stop,
+                                 report=report)
     status = _less_deadhead(day, classes, states, t0, time_limit, stop)  # type: ignore[arg-type]
     return _plan(day, classes, states, antichains, limit, t0, stopped=stop(),  # type: ignore
                  deadhead_status=status)
