@@ -25,7 +25,7 @@ from dataclasses import dataclass
 import highspy
 import numpy as np
 
-from .master import _new_highs, cover_to_routes
+from .master import cover_to_routes, covering_mip, new_highs
 from .pricing import heaviest_routes
 from .problem import WorkdayClass
 
@@ -75,7 +75,7 @@ class _FleetLP:
         self.routes: list[np.ndarray] = []
         self.costs: list[float] = []
         self._known: set[bytes] = set()
-        self.lp = _new_highs()
+        self.lp = new_highs()
         self.lp.addRows(m, np.ones(m), np.full(m, _INF), 0, np.zeros(0, np.int32),
                         np.zeros(0, np.int32), np.zeros(0))
         self.lp.addRow(-_INF, float(fleet), 0, np.zeros(0, np.int32), np.zeros(0))
@@ -142,32 +142,9 @@ class _FleetLP:
         keep = keep.copy()
         keep[start] = True
         columns = np.flatnonzero(keep)
-        mip = _new_highs()
-        mip.addRows(self.m, np.ones(self.m), np.full(self.m, _INF), 0,
-                    np.zeros(0, np.int32), np.zeros(0, np.int32), np.zeros(0))
-        mip.addRow(-_INF, float(self.fleet), 0, np.zeros(0, np.int32), np.zeros(0))
-        rows = [np.append(self.routes[k], self.m) for k in columns]
-        starts = np.cumsum([0] + [len(r) for r in rows[:-1]]).astype(np.int32)
-        index = np.concatenate(rows).astype(np.int32)
-        n = len(columns)
-        mip.addCols(n, np.array([self.costs[k] for k in columns]), np.zeros(n), np.ones(n),
-                    len(index), starts, index, np.ones(len(index)))
-        mip.changeColsIntegrality(n, np.arange(n, dtype=np.int32),
-                                  np.full(n, highspy.HighsVarType.kInteger))
-        mip.changeObjectiveSense(highspy.ObjSense.kMinimize)
-        mip.setOptionValue("time_limit", float(max(time_limit, 0.01)))
-        values = np.isin(columns, start).astype(np.float64)
-        solution = highspy.HighsSolution()
-        solution.col_value = list(values)
-        solution.value_valid = True
-        mip.setSolution(solution)
-        mip.run()
-        sol = mip.getSolution()
-        if not sol.value_valid:
-            return None
-        x = np.asarray(sol.col_value)
-        optimal = mip.getModelStatus() == highspy.HighsModelStatus.kOptimal
-        return [self.routes[columns[k]] for k in np.flatnonzero(x > 0.5)], optimal
+        return covering_mip(self.m, [self.routes[k] for k in columns],
+                            np.array([self.costs[k] for k in columns]), time_limit=time_limit,
+                            fleet=self.fleet, start=np.isin(columns, start))
 
 
 def less_deadhead(problem: WorkdayClass, travel: np.ndarray, depot: int | None,

@@ -23,7 +23,7 @@ from dataclasses import dataclass
 import highspy
 import numpy as np
 
-__all__ = ["Master", "LPResult", "cover_to_routes"]
+__all__ = ["Master", "LPResult", "cover_to_routes", "covering_mip", "new_highs", "ceil_bound"]
 
 _INF = highspy.kHighsInf
 
@@ -39,7 +39,7 @@ _BANNER_LOCK = threading.Lock()
 _banner_shown = False
 
 
-def _new_highs() -> highspy.Highs:
+def new_highs() -> highspy.Highs:
     """A silent HiGHS instance.  HiGHS prints a banner on the first instance of a
     process, before any option can be set; it is sent to /dev/null so that our
     command line prints only its own lines."""
@@ -79,7 +79,7 @@ class Master:
         self.routes: list[np.ndarray] = []
         self.costs: list[float] = []
         self._known: dict[bytes, int] = {}
-        self._lp = _new_highs()
+        self._lp = new_highs()
         self._lp.addRows(m, np.ones(m), np.full(m, _INF), 0, np.zeros(0, np.int32),
                          np.zeros(0, np.int32), np.zeros(0))
         self._lp.changeObjectiveSense(highspy.ObjSense.kMinimize)
@@ -136,60 +136,60 @@ class Master:
         duals = np.maximum(np.asarray(solution.row_dual, dtype=np.float64), 0.0)
         return LPResult(float(value), np.asarray(solution.col_value, dtype=np.float64), duals)
 
-    def integer_plan(self, *, allowed: np.ndarray | None = None, time_limit: float = 10.0,
-                     cutoff: int | None = None, tie_costs: np.ndarray | None = None,
-                     start: np.ndarray | None = None) -> tuple[list[np.ndarray], bool] | None:
-        """The fewest allowed routes covering every job (HiGHS branch and bound).
+    def integer_plan(self, *, time_limit: float = 10.0,
+                     cutoff: int | None = None) -> tuple[list[np.ndarray], bool] | None:
+        """The fewest routes of the pool covering every job (see :func:`covering_mip`);
+        ``cutoff``: only plans with fewer routes are of use."""
+        found = covering_mip(self.m, self.routes, np.ones(len(self.routes)),
+                             time_limit=time_limit, cutoff=cutoff)
+        if found is None or not found[0]:
+            return None
+        return cover_to_routes(found[0], self.m), found[1]
 
-        Returns (routes, proven optimal over these routes) or None when none was
-        found in time.  ``cutoff``: only plans with fewer routes are of use.
-        ``tie_costs`` (per route, each below 1 / number of jobs) break ties
-        between plans of equally many routes.
-        """
-        n = len(self.routes)
-        if n == 0:
-            return None
-        allowed = np.ones(n, dtype=bool) if allowed is None else allowed
-        columns = np.flatnonzero(allowed)
-        mip = _new_highs()
-        mip.setOptionValue("time_limit", float(max(time_limit, 0.01)))
-        mip.setOptionValue("mip_rel_gap", 0.0)
-        mip.addRows(self.m, np.ones(self.m), np.full(self.m, _INF), 0, np.zeros(0, np.int32),
-                    np.zeros(0, np.int32), np.zeros(0))
-        chosen = [self.routes[k] for k in columns]
-        starts = np.cumsum([0] + [len(r) for r in chosen[:-1]]).astype(np.int32)
-        index = np.concatenate(chosen).astype(np.int32)
-        cost = np.ones(len(columns))
-        if tie_costs is not None:
-            cost = cost + tie_costs[columns]
-        mip.addCols(len(columns), cost, np.zeros(len(columns)), np.ones(len(columns)),
-                    len(index), starts, index, np.ones(len(index)))
-        mip.changeColsIntegrality(len(columns), np.arange(len(columns), dtype=np.int32),
-                                  np.full(len(columns), highspy.HighsVarType.kInteger))
-        mip.changeObjectiveSense(highspy.ObjSense.kMinimize)
-        if cutoff is not None:
-            mip.setOptionValue("objective_bound", float(cutoff) - 0.5)
-        if start is not None:
-            values = np.zeros(len(columns))
-            where = {int(c): k for k, c in enumerate(columns)}
-            for c in start:
-                if int(c) in where:
-                    values[where[int(c)]] = 1.0
-            sol = highspy.HighsSolution()
-            sol.col_value = list(values)
-            sol.value_valid = True
-            mip.setSolution(sol)
-        mip.run()
-        status = mip.getModelStatus()
-        solution = mip.getSolution()
-        if not solution.value_valid:
-            return None
-        x = np.asarray(solution.col_value)
-        picked = [chosen[k] for k in np.flatnonzero(x > 0.5)]
-        if len(picked) == 0:
-            return None
-        optimal = status == highspy.HighsModelStatus.kOptimal
-        return cover_to_routes(picked, self.m), optimal
+
+def covering_mip(m: int, routes: list[np.ndarray], costs: np.ndarray, *,
+                 time_limit: float, fleet: int | None = None, cutoff: float | None = None,
+                 start: np.ndarray | None = None) -> tuple[list[np.ndarray], bool] | None:
+    """The cheapest set of ``routes`` covering all ``m`` jobs (HiGHS branch and bound).
+
+    ``fleet`` caps the number of routes; ``cutoff``: only plans cheaper than it
+    are of use; ``start`` marks a known cover to start from.  Returns (routes
+    chosen, proven optimal over these routes) or None when none was found in
+    time.
+    """
+    if not routes:
+        return None
+    mip = new_highs()
+    mip.setOptionValue("time_limit", float(max(time_limit, 0.01)))
+    mip.setOptionValue("mip_rel_gap", 0.0)
+    mip.addRows(m, np.ones(m), np.full(m, _INF), 0, np.zeros(0, np.int32),
+                np.zeros(0, np.int32), np.zeros(0))
+    rows = list(routes)
+    if fleet is not None:  # one more row: every route counts against the fleet
+        mip.addRow(-_INF, float(fleet), 0, np.zeros(0, np.int32), np.zeros(0))
+        rows = [np.append(r, m) for r in rows]
+    n = len(rows)
+    starts = np.cumsum([0] + [len(r) for r in rows[:-1]]).astype(np.int32)
+    index = np.concatenate(rows).astype(np.int32)
+    mip.addCols(n, np.asarray(costs, dtype=np.float64), np.zeros(n), np.ones(n), len(index),
+                starts, index, np.ones(len(index)))
+    mip.changeColsIntegrality(n, np.arange(n, dtype=np.int32),
+                              np.full(n, highspy.HighsVarType.kInteger))
+    mip.changeObjectiveSense(highspy.ObjSense.kMinimize)
+    if cutoff is not None:
+        mip.setOptionValue("objective_bound", float(cutoff) - 0.5)
+    if start is not None:
+        solution = highspy.HighsSolution()
+        solution.col_value = list(np.asarray(start, dtype=np.float64))
+        solution.value_valid = True
+        mip.setSolution(solution)
+    mip.run()
+    solution = mip.getSolution()
+    if not solution.value_valid:
+        return None
+    x = np.asarray(solution.col_value)
+    optimal = mip.getModelStatus() == highspy.HighsModelStatus.kOptimal
+    return [routes[k] for k in np.flatnonzero(x > 0.5)], optimal
 
 
 def cover_to_routes(routes: list[np.ndarray], m: int) -> list[np.ndarray]:
