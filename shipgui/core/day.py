@@ -110,6 +110,7 @@ def build_day(jobs: list[Job], sites: list[Site],
         raise InputError(str(exc), file=sources.get("travel")) from None
     index = {s: k for k, s in enumerate(site_ids)}
     _check_jobs(jobs, closed, index, settings, sources.get("jobs"))
+    _check_vehicle_limits(jobs, settings, sources.get("jobs"))
     warnings = []
     if estimated:
         warnings.append(f"{estimated} travel times were estimated from site coordinates "
@@ -260,6 +261,21 @@ def _check_working_days(jobs, travel, origin, dest, index, settings: Settings, j
         issues.add(f"job {j.id} alone makes a working day of {format_duration(own[k])}{parts}, "
                    f"{format_minutes(own[k] - settings.max_day)} min over the longest working "
                    f"day of {limit}", jobs_file, j.row, "end")
+def _check_vehicle_limits(jobs: list[Job], settings: Settings, jobs_file: str | None) -> None:
+    """The vehicles available must be a positive number, per class only for classes
+    the jobs use."""
+    if settings.vehicles is not None and settings.vehicles < 1:
+        raise InputError(f"the vehicles available must be 1 or more (not {settings.vehicles})")
+    classes = {j.vehicle_class for j in jobs}
+    shown = ", ".join(sorted(c or "(none)" for c in classes))
+    for name, count in settings.class_vehicles:
+        if count < 1:
+            raise InputError(f"the vehicles available for class '{name}' must be 1 or more "
+                             f"(not {count})")
+        if name not in classes:
+            raise InputError(f"vehicles are given for class '{name}', but no job has that "
+                             f"vehicle class (classes of the jobs: {shown})", file=jobs_file,
+                             column="vehicle_class")
 
 
 def _fingerprint(jobs: list[Job], sites: dict[str, Site], site_ids: list[str],
@@ -268,6 +284,11 @@ def _fingerprint(jobs: list[Job], sites: dict[str, Site], site_ids: list[str],
     that a printout can be matched to its data."""
     h = hashlib.sha256()
     h.update(repr([tuple(vars(j).values())[:9] for j in jobs]).encode())
+    # Priority and movable only where set, so days without them keep their print.
+    options = [(k, j.priority, j.movable) for k, j in enumerate(jobs)
+               if j.priority != 1 or not j.movable]
+    if options:
+        h.update(repr(options).encode())
     h.update(repr(sorted((k, tuple(vars(v).values())) for k, v in sites.items())).encode())
     h.update(repr(site_ids).encode())
     h.update(np.ascontiguousarray(travel, dtype=np.int64).tobytes())

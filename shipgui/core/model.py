@@ -10,7 +10,8 @@ import numpy as np
 from .drivers import Driver
 
 __all__ = ["Job", "Site", "Settings", "DayInputs", "Day", "Plan", "WorkdayInfo",
-           "DEFAULT_SPEED_KMH", "DEFAULT_CIRCUITY", "TravelPairs", "SITE_DETAILS"]
+           "DEFAULT_SPEED_KMH", "DEFAULT_CIRCUITY", "TravelPairs", "SITE_DETAILS",
+           "PRIORITY_UNIT", "priority_units", "ServiceProof", "Shortfall"]
 
 # Straight-line distance times a circuity factor gives road distance.  1.20 is
 # the mean road circuity measured for the USA in Ballou, Rahardja & Sakai,
@@ -20,6 +21,9 @@ DEFAULT_CIRCUITY = 1.20
 # Average door-to-door speed of a loaded truck on regional mixed roads: an
 # assumption (common practice for first estimates), to be set per region.
 DEFAULT_SPEED_KMH = 50.0
+# Priorities are kept exactly as whole thousandths (a priority has at most three
+# decimals), so sums and comparisons never suffer from floating point.
+PRIORITY_UNIT = 1000
 
 
 @dataclass(frozen=True)
@@ -37,6 +41,16 @@ class Job:
     reference: str = ""
     notes: str = ""
     row: int = 0  # row in the jobs file (header is row 1), for messages
+    # How much serving the job matters when vehicles are short (positive, at most
+    # three decimals); and whether its slot may be moved to save a vehicle.
+    priority: float = 1.0
+    movable: bool = True
+
+
+def priority_units(job: Job) -> int:
+    """The job's priority in whole thousandths (exact: a priority has at most three
+    decimals)."""
+    return round(job.priority * PRIORITY_UNIT)
 
 
 # Optional sites columns printed for the driver beside the site (text as given).
@@ -85,6 +99,15 @@ class Settings:
     # Longest working day of one vehicle (pull-out to pull-in with a depot, first
     # start to last end without); None: no limit.
     max_day: int | None = None
+    # Vehicles available: one number for all classes, or per vehicle class
+    # ((class, vehicles), ...; classes not named have no limit).  None / (): no limit.
+    vehicles: int | None = None
+    class_vehicles: tuple[tuple[str, int], ...] = ()
+
+    @property
+    def vehicle_limit(self) -> bool:
+        """Whether the vehicles available are limited."""
+        return self.vehicles is not None or bool(self.class_vehicles)
 
 
 # (from site, to site) -> (seconds, row in the travel file)
@@ -193,6 +216,57 @@ class WorkdayInfo:
 
 
 @dataclass(frozen=True, eq=False)
+class ServiceProof:
+    """Why no plan with the vehicles available serves more priority.
+
+    Arrays per job, in priority thousandths: ``conceded`` >= 0, and a level span
+    ``(low, high]`` with ``high - low >= priority - conceded``, such that whenever
+    job j can follow job i (both in one pool), ``high_i <= low_j``.  Along any
+    route the spans are disjoint, so a route collects at most one job per level
+    t, and the jobs whose span covers t pairwise cannot share a vehicle.  ``pools``
+    lists (vehicles, classes) of each group of vehicles: a pool of K vehicles
+    serves at most K of the jobs covering each level, so no plan serves more than
+
+        sum(conceded) + sum over pools of the integral over t of min(K, jobs covering t).
+
+    With equal priorities and nothing conceded the levels are groups of jobs no
+    two of which can share a vehicle, each giving at most K jobs: the form of the
+    theorem that the largest union of K chains equals the least sum of min(K, |A|)
+    over partitions into antichains A (Greene & Kleitman, "The structure of
+    Sperner k-families", J. Combinatorial Theory A 20, 1976, and Greene, "Some
+    partitions associated with a partially ordered set", same volume; the split
+    between the two papers recalled from memory).
+    """
+
+    conceded: np.ndarray
+    low: np.ndarray
+    high: np.ndarray
+    pools: tuple[tuple[int, tuple[str, ...]], ...]
+
+
+@dataclass(frozen=True, eq=False)
+class Shortfall:
+    """The answer when vehicles are limited (contract section 6).
+
+    ``unserved`` holds job indices; priorities are in thousandths
+    (:data:`PRIORITY_UNIT`).  ``served_upper_bound`` is proven by ``proof`` (None
+    when a bound comes from elsewhere); ``needed_for_all`` is the fleet that would
+    serve every job.
+    """
+
+    unserved: tuple[int, ...]
+    served_priority: int
+    served_upper_bound: int
+    needed_for_all: int
+    proof: ServiceProof | None = None
+
+    @property
+    def exact(self) -> bool:
+        """Whether the plan provably serves the most priority possible."""
+        return self.served_priority >= self.served_upper_bound
+
+
+@dataclass(frozen=True, eq=False)
 class Plan:
     """A minimum-fleet plan with its certificate.
 
@@ -221,6 +295,10 @@ class Plan:
     bound: int | None = None
     certificate_weights: tuple[tuple[int, float], ...] = ()
     workday: WorkdayInfo | None = None
+    # With a limit on the vehicles available: which jobs are not served and the
+    # proof that no plan serves more (None without a limit).  The routes and the
+    # certificate then concern the served jobs.
+    shortfall: Shortfall | None = None
 
     @property
     def vehicles(self) -> int:

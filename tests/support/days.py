@@ -97,3 +97,17 @@ def depot_day(n: int, sites: int, *, seed: int = 0, turnaround_min: int = 10,
     settings = Settings(turnaround=turnaround_min * 60, depot="S0",
                         max_day=None if max_day_min is None else max_day_min * 60)
     return build_day(jobs, site_list, {}, settings=settings)
+def rebuild(day, *, jobs=None, settings=None):
+    """``day`` built again from its jobs (or ``jobs``) and closed travel times, with
+    other ``settings`` if given: for limits, priorities and moved slots in tests."""
+    travel = {(a, b): (int(day.travel[i, j]), 0) for i, a in enumerate(day.site_ids)
+              for j, b in enumerate(day.site_ids) if i != j}
+    return build_day(list(day.jobs if jobs is None else jobs), list(day.sites.values()),
+                     travel, settings=settings or day.settings)
+
+
+def with_priorities(day, rng, choices=(1, 2, 3, 0.5)):
+    """``day`` with a random priority from ``choices`` on every job."""
+    import dataclasses
+    jobs = [dataclasses.replace(j, priority=float(rng.choice(choices))) for j in day.jobs]
+    return rebuild(day, jobs=jobs)

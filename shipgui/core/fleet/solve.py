@@ -13,12 +13,15 @@ from collections.abc import Callable
 
 import numpy as np
 
-from ..model import Day, Plan
+from ..errors import InputError
+from ..model import Day, Plan, ServiceProof, Shortfall, priority_units
 from .deadhead import TRADEOFF_SHOWN, plan_deadhead
 from .least_deadhead import class_costs, least_cost_links
 from .matching import default_kernel, maximum_matching
-from .precedence import class_indexes
+from .precedence import PrefixIndex, class_indexes, prefix_index
+from .shortfall import Pool, proof_bound, serve_most, vehicle_pools
 from .verify import check_plan
+from .verify_shortfall import check_shortfall
 
 __all__ = ["solve_day", "Cancelled"]
 
@@ -108,6 +111,18 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
     t = time.perf_counter()
     indexes = class_indexes(day)
     t = stage("relation", t)
+    if day.settings.vehicle_limit:
+        if day.settings.max_day is not None:
+            raise InputError("a limit on the vehicles available together with a working-day "
+                             "limit is not yet supported; plan with one of them")
+        pools = vehicle_pools(day)
+        width = [index.m - maximum_matching(index, kernel=kernel, day=day).size
+                 for index in indexes]
+        needed = [sum(width[c] for c in pool.classes) for pool in pools]
+        t = stage("matching", t)
+        if any(pool.vehicles < need for pool, need in zip(pools, needed)):
+            return _solve_short(day, indexes, pools, sum(needed), kernel,
+                                stop_if_cancelled, stage, timings)
     routes: list[tuple[int, ...]] = []
     certificate: list[int] = []
     savings: list[int] = []  # per extra vehicle in one class; can be negative
@@ -132,10 +147,57 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
     stage("verification", t)
     total, per_route = plan_deadhead(day, routes)
     exact = _merge_tradeoff(len(routes), total, savings, tradeoff if least_deadhead else 0)
+    shortfall = None
+    if day.settings.vehicle_limit:  # enough vehicles: every job served
+        shortfall = _everything_served(day, len(routes))
+        failures += check_shortfall(day, routes, certificate, shortfall)
     return Plan(day, tuple(routes), tuple(certificate), not failures, timings, kernel,
                 deadhead_seconds=total, route_deadhead_seconds=per_route,
                 tradeoff=_at_most(exact), tradeoff_exact=exact,
-                least_deadhead=least_deadhead, verification_failures=tuple(failures))
+                least_deadhead=least_deadhead, verification_failures=tuple(failures),
+                shortfall=shortfall)
+
+
+def _everything_served(day: Day, vehicles: int) -> Shortfall:
+    """Every job served; the proof concedes every job's whole priority."""
+    priority = np.fromiter((priority_units(j) for j in day.jobs), np.int64, day.n)
+    zero = np.zeros(day.n, dtype=np.int64)
+    pools = tuple((p.vehicles, tuple(day.class_names[c] for c in p.classes))
+                  for p in vehicle_pools(day))
+    total = int(priority.sum())
+    return Shortfall((), total, total, vehicles, ServiceProof(priority, zero, zero, pools))
+
+
+def _solve_short(day: Day, indexes: list[PrefixIndex], pools: list[Pool], needed: int,
+                 kernel: str, check: Callable[[], None], stage: Callable[[str, float], float],
+                 timings: dict[str, float]) -> Plan:
+    """The plan that serves the most priority with the vehicles available, checked
+    independently."""
+    t = time.perf_counter()
+    served = serve_most(day, indexes, pools, check=check)
+    t = stage("serving the most", t)
+    routes = served.routes
+    certificate: list[int] = []
+    keep = np.ones(day.n, dtype=bool)
+    keep[list(served.unserved)] = False
+    for c in range(len(day.class_names)):
+        jobs = np.flatnonzero(keep & (day.vclass == c))
+        if len(jobs):
+            index = prefix_index(day, jobs)
+            certificate.extend(int(k) for k in index.jobs[
+                maximum_matching(index, kernel=kernel, day=day).antichain])
+    certificate.sort(key=lambda k: (int(day.start[k]), k))
+    priority = np.fromiter((priority_units(j) for j in day.jobs), np.int64, day.n)
+    shortfall = Shortfall(served.unserved, int(priority[keep].sum()),
+                          proof_bound(day, served.proof), needed, served.proof)
+    t = stage("routes", t)
+    failures = check_shortfall(day, routes, certificate, shortfall)
+    stage("verification", t)
+    total, per_route = plan_deadhead(day, routes)
+    return Plan(day, tuple(routes), tuple(certificate), not failures, timings, kernel,
+                deadhead_seconds=total, route_deadhead_seconds=per_route,
+                least_deadhead=True, verification_failures=tuple(failures),
+                shortfall=shortfall)
 
 
 def _merge_tradeoff(vehicles: int, deadhead: int, savings: list[int],

@@ -20,6 +20,7 @@ from ..drivers import Driver, drivers_from_numbers
 from ..errors import InputError, InputErrors, Problem
 from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
 from .files import write_bytes_atomic
+from .readers import parse_priority
 
 __all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "inputs_to_json", "inputs_from_json",
            "plan_file_bytes", "write_plan_file", "read_plan_json", "read_plan_file"]
@@ -38,10 +39,7 @@ def inputs_to_json(inputs: DayInputs) -> dict:
         "schema_version": SCHEMA_VERSION,
         "plan_date": inputs.plan_date.isoformat() if inputs.plan_date else None,
         "inputs": {
-            "jobs": [{"job": j.id, "origin": j.origin, "destination": j.destination,
-                      "start": format_clock(j.start), "end": format_clock(j.end),
-                      "vehicle_class": j.vehicle_class, "customer": j.customer,
-                      "reference": j.reference, "notes": j.notes} for j in inputs.jobs],
+            "jobs": [_job_record(j) for j in inputs.jobs],
             "sites": [{"site": x.id, "name": x.name, "address": x.address, "lat": x.lat,
                        "lon": x.lon, "x_km": x.x_km, "y_km": x.y_km,
                        **{k: getattr(x, k) for k in SITE_DETAILS if getattr(x, k)}}
@@ -52,11 +50,26 @@ def inputs_to_json(inputs: DayInputs) -> dict:
         "settings": {"turnaround_seconds": s.turnaround, "depot": s.depot,
                      "day_start": format_clock_or_none(s.day_start),
                      "day_end": format_clock_or_none(s.day_end),
-                     "speed_kmh": s.speed_kmh, "circuity": s.circuity},
+                     "speed_kmh": s.speed_kmh, "circuity": s.circuity,
+                     "vehicles": s.vehicles,
+                     "class_vehicles": {c: k for c, k in s.class_vehicles}},
         "drivers": [{"name": d.name, "jobs": sorted(d.jobs)} if d.jobs or d.vehicle is None
                     else {"name": d.name, "vehicle": d.vehicle} for d in inputs.drivers],
         "sources": dict(inputs.sources),
     }
+
+
+def _job_record(j: Job) -> dict:
+    record = {"job": j.id, "origin": j.origin, "destination": j.destination,
+              "start": format_clock(j.start), "end": format_clock(j.end),
+              "vehicle_class": j.vehicle_class, "customer": j.customer,
+              "reference": j.reference, "notes": j.notes}
+    # Only where set, so days without them are saved as before.
+    if j.priority != 1:
+        record["priority"] = j.priority
+    if not j.movable:
+        record["movable"] = False
+    return record
 
 
 def plan_file_bytes(inputs: DayInputs) -> bytes:
@@ -134,10 +147,31 @@ def _read_jobs(reader: _Reader, records: list[dict]) -> list[Job]:
             reader.add(f"job '{job_id}' ends before or when it starts", row, "end")
         texts = {k: reader.text(r, k, row) for k in
                  ("destination", "vehicle_class", "customer", "reference", "notes")}
-        if start is not None and end is not None and job_id and origin:
+        extra = _job_options(reader, r, row)
+        if start is not None and end is not None and job_id and origin and extra is not None:
             texts["destination"] = texts["destination"] or origin
-            jobs.append(Job(job_id, origin, start=start, end=end, row=row, **texts))
+            jobs.append(Job(job_id, origin, start=start, end=end, row=row, **texts, **extra))
     return jobs
+
+
+def _job_options(reader: _Reader, record: dict, row: int) -> dict | None:
+    """Priority and movable of one job record (defaults when absent)."""
+    priority = record.get("priority", 1)
+    movable = record.get("movable", True)
+    ok = True
+    if isinstance(priority, bool) or not isinstance(priority, int | float):
+        reader.add("'priority' should be a number", row, "priority")
+        ok = False
+    else:
+        try:
+            priority = parse_priority(repr(priority))
+        except ValueError as exc:
+            reader.add(str(exc), row, "priority")
+            ok = False
+    if not isinstance(movable, bool):
+        reader.add("'movable' should be true or false", row, "movable")
+        ok = False
+    return {"priority": priority, "movable": movable} if ok else None
 
 
 def _read_sites(reader: _Reader, records: list[dict]) -> list[Site]:
@@ -181,7 +215,28 @@ def _read_settings(reader: _Reader, raw: dict) -> Settings:
     return Settings(turnaround=int(turnaround or 0),
                     depot=str(depot) if depot else None, **day,
                     speed_kmh=float(speed or defaults.speed_kmh),
-                    circuity=float(circuity or defaults.circuity))
+                    circuity=float(circuity or defaults.circuity),
+                    **_vehicle_limits(reader, raw))
+
+
+def _vehicle_limits(reader: _Reader, raw: dict) -> dict:
+    """The vehicles available (one number, or per class) of the settings record."""
+    def count(value, key: str) -> int | None:
+        if isinstance(value, bool) or not isinstance(value, int) or not 1 <= value <= 100_000:
+            reader.add(f"'{key}' should be a whole number of vehicles, 1 or more", None, key)
+            return None
+        return value
+    total = raw.get("vehicles")
+    if total is not None:
+        total = count(total, "vehicles")
+    per_class = raw.get("class_vehicles") or {}
+    if not isinstance(per_class, dict):
+        reader.add("'class_vehicles' should be a record of class: vehicles", None,
+                   "class_vehicles")
+        per_class = {}
+    pairs = tuple((str(c), k) for c, v in sorted(per_class.items())
+                  if (k := count(v, "class_vehicles")) is not None)
+    return {"vehicles": total, "class_vehicles": pairs}
 
 
 def inputs_from_json(data, path: str) -> DayInputs:

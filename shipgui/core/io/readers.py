@@ -13,6 +13,7 @@ import unicodedata
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from datetime import date
+from decimal import Decimal, InvalidOperation
 from pathlib import Path
 
 from ..clock import MAX_HOURS, ClockValue, parse_clock, parse_minutes, resolve_clock
@@ -20,7 +21,8 @@ from ..errors import MAX_PROBLEMS, InputError, InputErrors, Problem, ProblemColl
 from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
 from .tables import Table, read_table
 
-__all__ = ["read_jobs", "read_sites", "read_travel", "read_inputs", "MAX_PROBLEMS"]
+__all__ = ["read_jobs", "read_sites", "read_travel", "read_inputs", "MAX_PROBLEMS",
+           "parse_priority", "parse_movable"]
 
 
 def _has_control(text: str) -> bool:
@@ -70,6 +72,39 @@ class _RawJob:
     start: ClockValue | None = None
     end: ClockValue | None = None
     duration: int | None = None
+    priority: float = 1.0
+    movable: bool = True
+
+
+MAX_PRIORITY = 1_000_000
+
+
+def parse_priority(text: str) -> float:
+    """A job's priority as typed: a positive number with at most three decimals
+    (a decimal comma is fine).  Raises ``ValueError`` with a readable reason."""
+    text = text.strip()
+    plain = text.replace(",", ".") if text.count(",") == 1 and "." not in text else text
+    try:
+        value = Decimal(plain)
+    except InvalidOperation:
+        raise ValueError(f"'{text}' is not a number; a priority is a positive number "
+                         "such as 1, 2 or 0.5") from None
+    if not value.is_finite() or value <= 0 or value > MAX_PRIORITY:
+        raise ValueError(f"priority '{text}' must be more than 0 and at most "
+                         f"{MAX_PRIORITY:,}".replace(",", " "))
+    if value != value.quantize(Decimal("0.001")):
+        raise ValueError(f"priority '{text}' has more than three decimals")
+    return float(value)
+
+
+def parse_movable(text: str) -> bool:
+    """'yes' or 'no' (any case; empty means yes).  Raises ``ValueError`` otherwise."""
+    word = text.strip().lower()
+    if word in ("", "yes"):
+        return True
+    if word == "no":
+        return False
+    raise ValueError(f"'{text}' should be yes or no (no keeps the job's time slot)")
 
 
 def read_jobs(path: str | Path, *, sheet: str | None = None,
@@ -127,6 +162,16 @@ def _parse_job_row(table: Table, number: int, record: dict[str, str],
             raw.duration = parse_minutes(record["duration"], allow_zero=False)
         except ValueError as exc:
             issues.add(str(exc), table.path, number, "duration")
+            ok = False
+    for column, parse in (("priority", parse_priority), ("movable", parse_movable)):
+        text = record.get(column, "")
+        if column == "priority" and not text.strip():
+            continue
+        try:
+            setattr(raw, column, parse(text))
+        except ValueError as exc:
+            job = f"job {record['job']}: " if record.get("job") else ""
+            issues.add(job + str(exc), table.path, number, column)
             ok = False
     if ok and raw.end is None and raw.duration is None:
         issues.add("the job has neither an end time nor a duration", table.path, number,
@@ -186,7 +231,8 @@ def _finish_job(table: Table, raw: _RawJob, plan_date: date | None,
                destination=rec.get("destination") or rec["origin"],
                start=start, end=end, vehicle_class=rec.get("vehicle_class", ""),
                customer=rec.get("customer", ""), reference=rec.get("reference", ""),
-               notes=rec.get("notes", ""), row=raw.row)
+               notes=rec.get("notes", ""), row=raw.row, priority=raw.priority,
+               movable=raw.movable)
 
 
 # ---------------------------------------------------------------------- sites
