@@ -32,11 +32,19 @@ from shipgui.core.demo import DEMO_SETTINGS, demo_files
 from shipgui.core.export.plan_json import plan_to_json
 from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN, tradeoff_rows
 from shipgui.core.fleet.schedule import class_counts
+from shipgui.core.fleet.shortfall import priority_text
+from shipgui.core.fleet.suggest import DEFAULT_MAX_MOVE, SuggestionSearch, suggest_moves
 from shipgui.core.io.files import name_refused, write_files_atomic, write_problem
 from shipgui.core.io.plan_file import PLAN_SUFFIX, read_plan_file
 from shipgui.core.io.readers import read_inputs
 from shipgui.core.io.tables import parse_delimiter
-from shipgui.core.model import DEFAULT_CIRCUITY, DEFAULT_SPEED_KMH, DayInputs, Plan
+from shipgui.core.model import (
+    DEFAULT_CIRCUITY,
+    DEFAULT_SPEED_KMH,
+    DayInputs,
+    Plan,
+    priority_units,
+)
 from shipgui.core.planner import DEFAULT_TIME_LIMIT
 
 
@@ -153,6 +161,73 @@ def _add_common(p: argparse.ArgumentParser) -> None:
     p.add_argument("--routes", metavar="OUT.csv|OUT.xlsx",
                    help="write one row per job with vehicle and sequence (for spreadsheets)")
     p.add_argument("--verbose", action="store_true", help="print timings per stage")
+    _add_fleet(p)
+
+
+MAX_SUGGESTIONS = 50  # more is a list nobody reads; each one is a solve to check
+
+
+def _add_fleet(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--vehicles", metavar="K|CLASS=K", action="append",
+                   help="vehicles available: one number, or CLASS=K per vehicle class "
+                   "(repeat it); when fewer than needed, the jobs of the most priority are "
+                   "served and the rest listed")
+    p.add_argument("--suggest", metavar="N", type=int,
+                   help="look for up to N sets of slot moves that would save a vehicle")
+    p.add_argument("--max-move", metavar="MIN",
+                   help=f"largest move of one job for --suggest, in minutes (default "
+                   f"{DEFAULT_MAX_MOVE // 60})")
+
+
+def _vehicle_limits(values: list[str] | None) -> dict:
+    """Settings fields for ``--vehicles`` (empty when not given)."""
+    if not values:
+        return {}
+    total, per_class = None, {}
+    for text in values:
+        name, sep, count = text.rpartition("=")
+        try:
+            k = int(count.strip())
+        except ValueError:
+            raise UsageError(f"--vehicles {text}: give a whole number of vehicles, or "
+                             "CLASS=K") from None
+        if k < 1:
+            raise UsageError(f"--vehicles {text}: at least 1 vehicle is needed")
+        if not sep:
+            if total is not None:
+                raise UsageError("--vehicles: give one number, or CLASS=K for each class")
+            total = k
+        elif not name.strip():
+            raise UsageError(f"--vehicles {text}: the class name is missing before '='")
+        elif name.strip() in per_class:
+            raise UsageError(f"--vehicles: class '{name.strip()}' is given twice")
+        else:
+            per_class[name.strip()] = k
+    if total is not None and per_class:
+        raise UsageError("--vehicles: give either one number for all vehicles or CLASS=K "
+                         "per class, not both")
+    return {"vehicles": total, "class_vehicles": tuple(sorted(per_class.items()))}
+
+
+def _suggest_options(args: argparse.Namespace) -> tuple[int, int]:
+    """(how many suggestions, largest move in seconds); (0, ...) without --suggest."""
+    count = getattr(args, "suggest", None)
+    text = getattr(args, "max_move", None)
+    if count is None:
+        if text is not None:
+            raise UsageError("--max-move goes with --suggest N")
+        return 0, DEFAULT_MAX_MOVE
+    if not 1 <= count <= MAX_SUGGESTIONS:
+        raise UsageError(f"--suggest: ask for 1 to {MAX_SUGGESTIONS} suggestions")
+    if getattr(args, "max_day", None) is not None:
+        raise UsageError("--suggest together with --max-day is not yet supported")
+    max_move = DEFAULT_MAX_MOVE
+    if text is not None:
+        try:
+            max_move = parse_minutes(text, allow_zero=False)
+        except ValueError as exc:
+            raise UsageError(f"--max-move: {exc}") from None
+    return count, max_move
 
 
 def _settings(args: argparse.Namespace, base: Settings) -> Settings:
@@ -168,7 +243,8 @@ def _settings(args: argparse.Namespace, base: Settings) -> Settings:
             raise UsageError(f"{option}: give a clock time HH:MM")
         return value.seconds
     given = {name: getattr(args, name, None) for name in
-             ("turnaround", "depot", "day_start", "day_end", "speed", "circuity", "max_day")}
+             ("turnaround", "depot", "day_start", "day_end", "speed", "circuity", "max_day",
+              "vehicles")}
     args = argparse.Namespace(**given)
     max_day = base.max_day
     if args.max_day is not None:
@@ -197,8 +273,12 @@ def _settings(args: argparse.Namespace, base: Settings) -> Settings:
         raise UsageError("--speed must be more than 0 km/h")
     if not (math.isfinite(circuity) and circuity >= 1):
         raise UsageError("--circuity must be at least 1")
+    limits = _vehicle_limits(args.vehicles)
+    if (limits or base.vehicle_limit) and max_day is not None:
+        raise UsageError("--vehicles together with --max-day is not yet supported")
     return replace(base, turnaround=turnaround, depot=depot, day_start=day_start,
-                   day_end=day_end, speed_kmh=speed, circuity=circuity, max_day=max_day)
+                   day_end=day_end, speed_kmh=speed, circuity=circuity, max_day=max_day,
+                   **limits)
 
 
 OUTPUT_OPTIONS = ("json", "pdf", "routes")
@@ -270,14 +350,15 @@ def _cost_model(plan: Plan, args: argparse.Namespace) -> dict | None:
             "cheapest_vehicles": cheapest["vehicles"]}
 
 
-def _render_outputs(plan: Plan, args: argparse.Namespace) -> dict[str, bytes]:
+def _render_outputs(plan: Plan, args: argparse.Namespace,
+                    suggestions: SuggestionSearch | None = None) -> dict[str, bytes]:
     outputs: dict[str, bytes] = {}
     if args.json:
-        outputs[args.json] = plan_to_json(plan, cost_model=_cost_model(plan, args)
-                                          ).encode("utf-8")
+        outputs[args.json] = plan_to_json(plan, cost_model=_cost_model(plan, args),
+                                          suggestions=suggestions).encode("utf-8")
     if args.pdf:
         from shipgui.report import build_pdf_bytes
-        outputs[args.pdf] = build_pdf_bytes(plan)
+        outputs[args.pdf] = build_pdf_bytes(plan, suggestions=suggestions)
     if getattr(args, "routes", None):
         from shipgui.core.export.routes_table import (
             route_rows,
@@ -301,10 +382,12 @@ def _summary(plan: Plan, label: str, args: argparse.Namespace | None = None) -> 
         lines.append("PLAN FAILED ITS INDEPENDENT CHECK - do not use it:")
         lines.extend(f"  {f}" for f in plan.verification_failures)
         return "\n".join(lines)
-    if plan.workday is None:
-        lines.append(f"Vehicles needed: {plan.vehicles} (minimum; independently verified)")
-    else:
+    if plan.workday is not None:
         lines += _workday_lines(plan)
+    elif plan.shortfall is not None and plan.shortfall.unserved:
+        lines += _shortfall_lines(plan)
+    else:
+        lines.append(f"Vehicles needed: {plan.vehicles} (minimum; independently verified)")
     counts = class_counts(plan)
     if len(counts) > 1:
         lines.append("  by class: " + ", ".join(f"{name or '(no class)'} {count}"
@@ -398,6 +481,47 @@ def _certificate_lines(plan: Plan, args: argparse.Namespace | None) -> list[str]
     return lines
 
 
+def _shortfall_lines(plan: Plan) -> list[str]:
+    """What a limit on the vehicles leaves undone, and the proof in one line."""
+    day, sf = plan.day, plan.shortfall
+    s = day.settings
+    available = (str(s.vehicles) if s.vehicles is not None
+                 else ", ".join(f"{c}: {k}" for c, k in s.class_vehicles))
+    ids = [day.jobs[k].id for k in sf.unserved]
+    total = sum(priority_units(j) for j in day.jobs)
+    lines = [f"Vehicles available: {available} ({sf.needed_for_all} needed to serve every "
+             f"job); this plan uses {plan.vehicles}",
+             f"Not served: {len(ids)} of {day.n} jobs, priority "
+             f"{priority_text(total - sf.served_priority)} of {priority_text(total)} "
+             "(hand them on or rebook them):"]
+    lines += ["  " + " ".join(ids[k:k + 10]) for k in range(0, len(ids), 10)]
+    lines.append(f"Served priority {priority_text(sf.served_priority)}: no plan with these "
+                 f"vehicles serves more (proof: --pdf or --json; independently verified)")
+    lines.append(f"Vehicles used: {plan.vehicles}, the fewest for the jobs served")
+    return lines
+
+
+def _suggestion_lines(plan: Plan, search: SuggestionSearch) -> list[str]:
+    jobs = plan.day.jobs
+    head = (f"What would save a vehicle (slot moves of at most "
+            f"{format_minutes(search.max_move)} min; {search.checked} move sets checked in "
+            f"{search.seconds:.2f} s{'' if search.complete else ', search cut short'}):")
+    if not search.suggestions:
+        return [head, "  no moves within that limit save a vehicle"]
+    lines = [head]
+    for number, suggestion in enumerate(search.suggestions, start=1):
+        parts = []
+        for m in suggestion.moves:
+            job = jobs[m.job]
+            way = "later" if m.shift > 0 else "earlier"
+            parts.append(f"{job.id} {format_clock(job.start)}-{format_clock(job.end)} -> "
+                         f"{format_clock(job.start + m.shift)}-{format_clock(job.end + m.shift)}"
+                         f" ({format_minutes(abs(m.shift))} min {way})")
+        lines.append(f"  {number}. {'; '.join(parts)}: {suggestion.vehicles} vehicles")
+    lines.append("  Each move changes a booked slot: the customer must agree first.")
+    return lines
+
+
 def _deadhead_lines(plan: Plan) -> list[str]:
     """Empty driving, and what more vehicles would save (each figure printed once)."""
     least = f" (the least possible with {plan.vehicles} vehicles)" if plan.least_deadhead else ""
@@ -466,6 +590,7 @@ def _checked_date(given: date | None, inputs: DayInputs) -> date | None:
 def _run_solve(args: argparse.Namespace, files: dict[str, str | None], base: Settings,
                label: str) -> int:
     _check_outputs(args, list(files.values()))
+    count, max_move = _suggest_options(args)
     t0 = time.perf_counter()
     day = build_inputs(_read(args, files, base))
     t1 = time.perf_counter()
@@ -474,13 +599,17 @@ def _run_solve(args: argparse.Namespace, files: dict[str, str | None], base: Set
     if not plan.verified:
         print(_summary(plan, label), file=sys.stderr)
         return 1
+    search = suggest_moves(day, count, max_move=max_move) if count else None
     t2 = time.perf_counter()
-    outputs = _render_outputs(plan, args)  # every output in memory first ...
+    outputs = _render_outputs(plan, args, search)  # every output in memory first ...
     _write_outputs(outputs)  # ... then all of them, or none
     t3 = time.perf_counter()
     try:
         _report(plan, label, args, outputs, {"reading and checking input": t1 - t0,
-                                             **plan.timings, "writing output": t3 - t2})
+                                             **plan.timings,
+                                             **({"suggestions": search.seconds}
+                                                if search else {}),
+                                             "writing output": t3 - t2}, search)
     except BrokenPipeError:  # the reader stopped listening; the work is done
         _quiet_stdout()
     return 0
@@ -503,8 +632,10 @@ class _WriteFailed(Exception):
 
 
 def _report(plan: Plan, label: str, args: argparse.Namespace, outputs: dict[str, bytes],
-            stages: dict[str, float]) -> None:
+            stages: dict[str, float], search: SuggestionSearch | None = None) -> None:
     print(_summary(plan, label, args))
+    if search is not None:
+        print("\n".join(_suggestion_lines(plan, search)))
     model = _cost_model(plan, args)
     if model:
         print(f"Cheapest fleet for the given costs: {model['cheapest_vehicles']} vehicles")

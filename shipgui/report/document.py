@@ -10,12 +10,14 @@ from reportlab.platypus import Flowable, NextPageTemplate, PageBreak
 from reportlab.platypus.doctemplate import LayoutError
 
 from shipgui.core import PlanNotVerified
+from shipgui.core.fleet.suggest import SuggestionSearch
 from shipgui.core.io.files import write_bytes_atomic
 from shipgui.core.model import Plan
 
 from .certificate import build_certificate
 from .pages import PlanDocTemplate
 from .route_sheet import build_route_sheet
+from .shortfall import build_suggestions, build_unserved
 from .styles import register_fonts
 from .summary import build_summary, plan_title
 from .text import plan_date_text
@@ -57,9 +59,12 @@ _STORY_SHARE = 250
 Progress = Callable[[int, int], None]  # (done, total); raising from it stops the build
 
 
-def _story(plan: Plan, driver_names: Mapping[int, str],
-           progress: Progress | None = None) -> list[Flowable]:
+def _story(plan: Plan, driver_names: Mapping[int, str], progress: Progress | None = None,
+           suggestions: SuggestionSearch | None = None) -> list[Flowable]:
     story = [NextPageTemplate("summary"), *build_summary(plan)]
+    unserved = build_unserved(plan)
+    if unserved:
+        story += _new_section("certificate") + unserved
     for number in range(1, plan.vehicles + 1):
         story += _new_section("route")
         story += build_route_sheet(plan, number, driver_name=driver_names.get(number))
@@ -67,6 +72,9 @@ def _story(plan: Plan, driver_names: Mapping[int, str],
             progress(_STORY_SHARE * number // max(plan.vehicles, 1), _PROGRESS_STEPS)
     story += _new_section("certificate")
     story += build_certificate(plan)
+    saving = build_suggestions(plan, suggestions)
+    if saving:
+        story += _new_section("certificate") + saving
     return story
 
 
@@ -84,8 +92,13 @@ def _layout_progress(progress: Progress):
 
 
 def build_pdf_bytes(plan: Plan, *, driver_names: Mapping[int, str] | None = None,
-                    progress: Progress | None = None) -> bytes:
+                    progress: Progress | None = None,
+                    suggestions: SuggestionSearch | None = None) -> bytes:
     """The whole printed plan as PDF bytes: summary, one route sheet per vehicle, proof.
+
+    With fewer vehicles than needed, a page of the jobs not served (with the proof
+    that no more fit) follows the summary; ``suggestions`` (a search for slot
+    moves that save a vehicle) adds a last page.
 
     The same plan and names always give the same bytes (reportlab's invariant mode).
     Raises :class:`~shipgui.core.PlanNotVerified` if the plan failed its check,
@@ -105,7 +118,7 @@ def build_pdf_bytes(plan: Plan, *, driver_names: Mapping[int, str] | None = None
     if progress is not None:
         document.setProgressCallBack(_layout_progress(progress))
     try:
-        document.build_story(_story(plan, names, progress))
+        document.build_story(_story(plan, names, progress, suggestions))
     except LayoutError:
         # Every user value is cut to fit its place (report.text.LIMITS), so this
         # is a guard: say what to do, not which flowable overflowed.
@@ -117,7 +130,8 @@ def build_pdf_bytes(plan: Plan, *, driver_names: Mapping[int, str] | None = None
 
 def write_plan_pdf(plan: Plan, path: str | os.PathLike, *,
                    driver_names: Mapping[int, str] | None = None,
-                   progress: Progress | None = None) -> None:
+                   progress: Progress | None = None,
+                   suggestions: SuggestionSearch | None = None) -> None:
     """Write the printed plan to ``path``.
 
     Parameters
@@ -144,4 +158,4 @@ def write_plan_pdf(plan: Plan, path: str | os.PathLike, *,
     are linear in the number of jobs (a 2 000-job day: about 8 s and 1 MB).
     """
     write_bytes_atomic(path, build_pdf_bytes(plan, driver_names=driver_names,
-                                             progress=progress))
+                                             progress=progress, suggestions=suggestions))

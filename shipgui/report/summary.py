@@ -57,6 +57,12 @@ def build_summary(plan: Plan) -> list[Flowable]:
 
 def _intro(plan: Plan) -> str:
     verb = "covers" if plan.vehicles == 1 else "cover"
+    sf = plan.shortfall
+    if sf is not None and sf.unserved:
+        return (f"{_vehicles_text(plan.vehicles)} {verb} {plan.day.n - len(sf.unserved)} of "
+                f"the {plan.day.n} jobs, as many as the vehicles available allow; "
+                f"{len(sf.unserved)} are not served (listed on the next page, with the proof "
+                f"that no more fit). {sf.needed_for_all} vehicles would serve every job.")
     jobs = "the 1 job" if plan.day.n == 1 else f"all {plan.day.n} jobs"
     return (f"{_vehicles_text(plan.vehicles)} {verb} {jobs}. No plan with fewer vehicles "
             "exists: the proof is on the last pages.")

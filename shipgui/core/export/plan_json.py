@@ -7,14 +7,20 @@ import json
 from ..clock import format_clock, format_clock_or_none
 from ..clock import minutes_value as _minutes
 from ..fleet.schedule import VehicleDay, class_counts, vehicle_days
+from ..fleet.shortfall import priority_value, service_levels, unserved_reasons
+from ..fleet.suggest import SuggestionSearch
 from ..model import Plan
 
 __all__ = ["plan_to_dict", "plan_to_json"]
 
 
 def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
-                 driver_names: dict[int, str] | None = None) -> dict:
-    """Fixed keys: vehicles, routes (vehicle, jobs), certificate.jobs, verified.
+                 driver_names: dict[int, str] | None = None,
+                 suggestions: SuggestionSearch | None = None) -> dict:
+    """Fixed keys: vehicles, routes (vehicle, jobs), certificate.jobs, verified;
+    with a limit on the vehicles available unserved, served_priority and
+    served_upper_bound (contract section 6); with ``suggestions``, suggestions
+    (section 7).
 
     ``driver_names`` (vehicle number -> name, as typed in the app) adds a
     ``driver`` to the routes that have one.
@@ -31,6 +37,10 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
                              for (k, d), (_, e) in zip(plan.tradeoff, plan.tradeoff_exact)]
     if cost_model is not None:
         extra["cost_model"] = cost_model
+    if plan.shortfall is not None:
+        extra.update(_shortfall(plan))
+    if suggestions is not None:
+        extra.update(_suggestions(plan, suggestions))
     if plan.workday is not None:
         extra["working_day"] = _working_day(plan)
     return {
@@ -107,9 +117,58 @@ def _certificate(plan: Plan) -> dict:
     return certificate
 
 
+def _shortfall(plan: Plan) -> dict:
+    """Contract section 6, plus the limit, the fleet for every job and the proof:
+    ``conceded`` priority per job and ``groups`` of jobs that pairwise cannot share
+    a vehicle, each counting ``weight`` x min(vehicles, jobs) toward the bound."""
+    day, sf = plan.day, plan.shortfall
+    s = day.settings
+    ids = [j.id for j in day.jobs]
+    out: dict = {
+        "unserved": [ids[k] for k in sf.unserved],
+        "served_priority": priority_value(sf.served_priority),
+        "served_upper_bound": priority_value(sf.served_upper_bound),
+        "vehicles_available": s.vehicles if s.vehicles is not None
+        else {c: k for c, k in s.class_vehicles},
+        "vehicles_needed_for_all": sf.needed_for_all,
+    }
+    reasons = unserved_reasons(day, sf)
+    if reasons:
+        out["unserved_reasons"] = {ids[k]: text for k, text in reasons.items()}
+    if sf.proof is not None:
+        proof = sf.proof
+        out["service_proof"] = {
+            "conceded": {ids[k]: priority_value(int(v))
+                         for k, v in enumerate(proof.conceded.tolist()) if v},
+            "groups": [{"jobs": [ids[k] for k in level.jobs],
+                        "weight": priority_value(level.thickness),
+                        "vehicles": level.vehicles} for level in service_levels(day, proof)],
+        }
+    return out
+
+
+def _suggestions(plan: Plan, search: SuggestionSearch) -> dict:
+    """Contract section 7, plus how long the search took and whether it was complete."""
+    jobs = plan.day.jobs
+    return {
+        "suggestions": [
+            {"moves": [{"job": jobs[m.job].id, "start": format_clock(jobs[m.job].start + m.shift),
+                        "end": format_clock(jobs[m.job].end + m.shift),
+                        "shift_minutes": _minutes(m.shift)} for m in s.moves],
+             "vehicles": s.vehicles, "moved_minutes": _minutes(s.moved_seconds)}
+            for s in search.suggestions],
+        "suggestion_search": {"max_move_minutes": _minutes(search.max_move),
+                              "seconds": round(search.seconds, 3),
+                              "move_sets_checked": search.checked,
+                              "complete": search.complete},
+    }
+
+
 def plan_to_json(plan: Plan, *, cost_model: dict | None = None,
-                 driver_names: dict[int, str] | None = None) -> str:
+                 driver_names: dict[int, str] | None = None,
+                 suggestions: SuggestionSearch | None = None) -> str:
     """The JSON text; raises ``ValueError`` rather than write NaN or Infinity,
     which are not JSON (RFC 8259, section 6)."""
-    return json.dumps(plan_to_dict(plan, cost_model=cost_model, driver_names=driver_names),
+    return json.dumps(plan_to_dict(plan, cost_model=cost_model, driver_names=driver_names,
+                                   suggestions=suggestions),
                       indent=2, ensure_ascii=False, allow_nan=False) + "\n"

@@ -40,13 +40,13 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import InputError
-from ..model import Day, ServiceProof, priority_units
+from ..model import PRIORITY_UNIT, Day, ServiceProof, Shortfall, priority_units
 from ._flow_kernel import Residual, cost_scaling, tighten_prices
 from ._level_kernel import heaviest_ending
 from .precedence import PrefixIndex
 
 __all__ = ["Pool", "vehicle_pools", "ServedPlan", "serve_most", "service_levels",
-           "Level", "proof_bound"]
+           "Level", "proof_bound", "priority_value", "priority_text", "unserved_reasons"]
 
 _ALPHA = 32  # cost-scaling factor between phases
 # Cost scaling keeps prices within about (nodes + 1) * (largest scaled cost); the
@@ -417,3 +417,42 @@ def proof_bound(day: Day, proof: ServiceProof) -> int:
         covering = np.cumsum(change)[:-1]
         total += int((np.diff(cuts) * np.minimum(vehicles, covering)).sum())
     return total
+
+
+def priority_value(units: int) -> int | float:
+    """Thousandths of priority as the number a dispatcher typed (1, 2.5, ...)."""
+    whole, rest = divmod(int(units), PRIORITY_UNIT)
+    return whole if rest == 0 else round(units / PRIORITY_UNIT, 3)
+
+
+def priority_text(units: int) -> str:
+    """Thousandths of priority as text: '117', '2.5'."""
+    return str(priority_value(units))
+
+
+def unserved_reasons(day: Day, shortfall: Shortfall) -> dict[int, str]:
+    """Why each job not served is not, where the proof says: the group of the proof
+    (numbered as :func:`service_levels` lists them) whose jobs pairwise cannot share
+    a vehicle and whose every vehicle already does one of them."""
+    if shortfall.proof is None:
+        return {}
+    levels = service_levels(day, shortfall.proof)
+    unserved = set(shortfall.unserved)
+    mixed = len({j.priority for j in day.jobs}) > 1
+    reasons = {}
+    for k in shortfall.unserved:
+        holding = [(len(level.jobs), g, level) for g, level in enumerate(levels, start=1)
+                   if k in level.jobs]
+        if not holding:
+            continue
+        _, number, level = min(holding, key=lambda h: (h[0], h[1]))
+        served = [j for j in level.jobs if j not in unserved]
+        lowest = min(priority_units(day.jobs[j]) for j in served) if served else 0
+        vehicles = (f"each of the {level.vehicles} vehicles already does"
+                    if level.vehicles > 1 else "the one vehicle already does")
+        text = (f"No two of the {len(level.jobs)} jobs of group {number} can share a vehicle, "
+                f"and {vehicles} one of them")
+        if mixed and served and lowest >= priority_units(day.jobs[k]):
+            text += " (each of priority at least as high)"
+        reasons[k] = text + "."
+    return reasons

@@ -99,6 +99,9 @@ def suggest_moves(day: Day, count: int = 5, *, max_move: int = DEFAULT_MAX_MOVE,
 
     t0 = time.perf_counter()
     check = check or (lambda: None)
+    # The fleet that serves every job, whatever vehicles are available.
+    day = dataclasses.replace(day, settings=dataclasses.replace(
+        day.settings, vehicles=None, class_vehicles=()))
     plan = solve_day(day, least_deadhead=False)
     certificate = set(plan.certificate)
     found: list[tuple[Move, ...]] = []
