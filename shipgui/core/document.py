@@ -24,7 +24,7 @@ from .model import Day, DayInputs, Job, Settings, Site
 __all__ = ["Change", "DayDocument", "JOB_FIELDS"]
 
 JOB_FIELDS = ("id", "origin", "destination", "start", "end", "vehicle_class",
-              "customer", "reference", "notes")
+              "customer", "reference", "notes", "priority", "movable")
 
 
 @dataclass(frozen=True)
@@ -125,6 +125,15 @@ class DayDocument:
         self._notify(change, False)
         self.jobs[row] = dataclasses.replace(self.jobs[row], **{name: value})
         self._notify(change, True)
+
+    def move_jobs(self, slots: dict[str, tuple[int, int]]) -> None:
+        """Give jobs new slots, job id -> (start, end) (one change per job)."""
+        for job_id, (start, end) in slots.items():
+            row = self.row_of(job_id)
+            change = Change("job", row, "start")
+            self._notify(change, False)
+            self.jobs[row] = dataclasses.replace(self.jobs[row], start=start, end=end)
+            self._notify(change, True)
 
     def insert_job(self, row: int, job: Job) -> None:
         change = Change("insert", row)

@@ -11,18 +11,23 @@ from shipgui.core.document import DayDocument
 from shipgui.core.drivers import Driver
 
 __all__ = ["EditJobField", "AddJob", "DeleteJobs", "ChangeSettings", "AttachSites",
-           "AttachTravel", "NameDriver", "FIELD_LABELS"]
+           "AttachTravel", "NameDriver", "MoveSlots", "FIELD_LABELS"]
 
 FIELD_LABELS = {
     "id": "id", "origin": "origin", "destination": "destination", "start": "start",
     "end": "end", "vehicle_class": "vehicle class", "customer": "customer",
-    "reference": "reference", "notes": "notes",
+    "reference": "reference", "notes": "notes", "priority": "priority",
+    "movable": "movable",
 }
 
 
 def _shown(name: str, value) -> str:
     if name in ("start", "end"):
         return format_clock(value)
+    if name == "movable":
+        return "yes" if value else "no"
+    if name == "priority":
+        return f"{value:g}"
     text = str(value)
     return f"'{text[:20]}…'" if len(text) > 20 else f"'{text}'"
 
@@ -149,3 +154,26 @@ class NameDriver(QUndoCommand):
 
     def undo(self) -> None:
         self._document.replace_driver(self._new, self._old)
+
+
+class MoveSlots(QUndoCommand):
+    """Move several jobs' slots in one step (a suggestion that saves a vehicle).
+
+    ``moves``: (job id, seconds) pairs; start and end shift together.
+    """
+
+    def __init__(self, document: DayDocument, moves: list[tuple[str, int]]) -> None:
+        parts = [f"{job_id} {'+' if shift > 0 else '−'}{abs(shift) // 60} min"
+                 for job_id, shift in moves]
+        super().__init__(f"Move {', '.join(parts)}")
+        self._document = document
+        jobs = {j.id: j for j in document.jobs}
+        self._old = {job_id: (jobs[job_id].start, jobs[job_id].end) for job_id, _ in moves}
+        self._new = {job_id: (jobs[job_id].start + shift, jobs[job_id].end + shift)
+                     for job_id, shift in moves}
+
+    def redo(self) -> None:
+        self._document.move_jobs(self._new)
+
+    def undo(self) -> None:
+        self._document.move_jobs(self._old)

@@ -12,10 +12,13 @@ from PySide6.QtCore import (
     Qt,
     Signal,
 )
-from PySide6.QtGui import QUndoStack
+from PySide6.QtGui import QColor, QUndoStack
 
 from shipgui.core import Plan, format_clock, parse_clock
 from shipgui.core.document import Change, DayDocument
+from shipgui.core.fleet.shortfall import priority_text, unserved_reasons
+from shipgui.core.io.readers import parse_movable, parse_priority
+from shipgui.core.model import priority_units
 
 from .commands import EditJobField
 
@@ -37,7 +40,9 @@ class Column(IntEnum):
     CUSTOMER = 6
     REFERENCE = 7
     NOTES = 8
-    VEHICLE = 9  # the vehicle the current plan gives the job (read only)
+    PRIORITY = 9  # counts when vehicles are short
+    MOVABLE = 10  # whether a suggestion may move the job's slot
+    VEHICLE = 11  # the vehicle the current plan gives the job (read only)
 
     @property
     def heading(self) -> str:
@@ -53,13 +58,16 @@ _HEADINGS = {
     Column.JOB: "Job", Column.ORIGIN: "From", Column.DESTINATION: "To",
     Column.START: "Start", Column.END: "End", Column.VEHICLE_CLASS: "Class",
     Column.CUSTOMER: "Customer", Column.REFERENCE: "Reference", Column.NOTES: "Notes",
-    Column.VEHICLE: "Vehicle",
+    Column.PRIORITY: "Priority", Column.MOVABLE: "Movable", Column.VEHICLE: "Vehicle",
 }
 _FIELDS = {
     Column.JOB: "id", Column.ORIGIN: "origin", Column.DESTINATION: "destination",
     Column.START: "start", Column.END: "end", Column.VEHICLE_CLASS: "vehicle_class",
     Column.CUSTOMER: "customer", Column.REFERENCE: "reference", Column.NOTES: "notes",
+    Column.PRIORITY: "priority", Column.MOVABLE: "movable",
 }
+NOT_SERVED = "not served"
+_UNSERVED_TINT = QColor("#f6dada")
 
 
 class JobRole(IntEnum):
@@ -89,6 +97,10 @@ def check_field(document: DayDocument, row: int, name: str, text: str):
         return text
     if name == "destination":
         return text or job.origin
+    if name == "priority":
+        return parse_priority(text or "1")  # raises ValueError with a readable reason
+    if name == "movable":
+        return parse_movable(text)
     if name in ("start", "end"):
         value = parse_clock(text)  # raises ValueError with a readable reason
         if value.seconds is None:
@@ -115,6 +127,7 @@ class JobsModel(QAbstractTableModel):
         self._document = document
         self._undo_stack = undo_stack
         self._vehicle_of: dict[str, int] = {}
+        self._not_served: dict[str, str] = {}  # job id -> why, with a vehicle limit
         document.subscribe(self._on_change)
 
     @property
@@ -156,17 +169,24 @@ class JobsModel(QAbstractTableModel):
             if column in (Column.START, Column.END):
                 return getattr(job, column.field)
             if column == Column.VEHICLE:
-                return self._vehicle_of.get(job.id, 0)
+                return self._vehicle_of.get(job.id, 10**9 if job.id in self._not_served else 0)
+            if column == Column.PRIORITY:
+                return priority_units(job)
             return self._text(job, column).casefold()
         if role == JobRole.ROW:
             return index.row()
         if role == JobRole.JOB_ID:
             return job.id
         if role == Qt.ItemDataRole.TextAlignmentRole and column in (
-                Column.START, Column.END, Column.VEHICLE):
+                Column.START, Column.END, Column.VEHICLE, Column.PRIORITY):
             return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
-        if role == Qt.ItemDataRole.ToolTipRole and column == Column.NOTES and job.notes:
-            return job.notes
+        if role == Qt.ItemDataRole.BackgroundRole and job.id in self._not_served:
+            return _UNSERVED_TINT
+        if role == Qt.ItemDataRole.ToolTipRole:
+            if job.id in self._not_served:
+                return f"Not served with the vehicles available. {self._not_served[job.id]}"
+            if column == Column.NOTES and job.notes:
+                return job.notes
         return None
 
     def _text(self, job, column: Column) -> str:
@@ -174,8 +194,18 @@ class JobsModel(QAbstractTableModel):
             return format_clock(getattr(job, column.field))
         if column == Column.VEHICLE:
             k = self._vehicle_of.get(job.id)
-            return "" if k is None else str(k)
+            if k is None:
+                return NOT_SERVED if job.id in self._not_served else ""
+            return str(k)
+        if column == Column.PRIORITY:
+            return priority_text(priority_units(job))
+        if column == Column.MOVABLE:
+            return "yes" if job.movable else "no"
         return str(getattr(job, column.field))
+
+    def is_served(self, job_id: str) -> bool:
+        """False for a job the current plan leaves out for want of vehicles."""
+        return job_id not in self._not_served
 
     def setData(self, index: AnyIndex, value, role: int = Qt.ItemDataRole.EditRole) -> bool:
         if role != Qt.ItemDataRole.EditRole or not index.isValid():
@@ -199,15 +229,20 @@ class JobsModel(QAbstractTableModel):
 
     # ------------------------------------------------------------ plan
     def set_plan(self, plan: Plan | None) -> None:
-        """Show which vehicle the plan gives each job (by job id)."""
-        self._vehicle_of = {}
+        """Show which vehicle the plan gives each job, and mark the jobs it cannot
+        serve with the vehicles available (by job id)."""
+        self._vehicle_of, self._not_served = {}, {}
         if plan is not None:
             for k, route in enumerate(plan.routes, start=1):
                 for j in route:
                     self._vehicle_of[plan.day.jobs[j].id] = k
+            if plan.shortfall is not None:
+                reasons = unserved_reasons(plan.day, plan.shortfall)
+                self._not_served = {plan.day.jobs[k].id: reasons.get(k, "")
+                                    for k in plan.shortfall.unserved}
         if self.rowCount():
-            self.dataChanged.emit(self.index(0, Column.VEHICLE),
-                                  self.index(self.rowCount() - 1, Column.VEHICLE))
+            self.dataChanged.emit(self.index(0, 0),
+                                  self.index(self.rowCount() - 1, len(Column) - 1))
 
     # ------------------------------------------------------------ document changes
     def _on_change(self, change: Change, done: bool) -> None:
@@ -226,7 +261,7 @@ class JobsModel(QAbstractTableModel):
                 self.beginRemoveRows(QModelIndex(), change.row, change.row)
         elif change.kind == "reset":
             if done:
-                self._vehicle_of = {}
+                self._vehicle_of, self._not_served = {}, {}
                 self.endResetModel()
             else:
                 self.beginResetModel()

@@ -188,8 +188,16 @@ class AnswerBar(QFrame):
     def show_plan(self, plan: Plan, seconds: float) -> None:
         self.vehicles.value.setText(str(plan.vehicles))
         self._show_classes(plan)
-        self.vehicles.caption.setText("vehicle needed" if plan.vehicles == 1
-                                      else "vehicles needed")
+        sf = plan.shortfall
+        if sf is not None and sf.unserved:  # fewer vehicles available than needed
+            self.vehicles.caption.setText(
+                f"vehicles used · {len(sf.unserved)} job{'s' if len(sf.unserved) != 1 else ''}"
+                f" not served ({sf.needed_for_all} needed for all)")
+            self.vehicles.caption.setStyleSheet("color: #9a2f2f; font-weight: 600;")
+        else:
+            self.vehicles.caption.setText("vehicle needed" if plan.vehicles == 1
+                                          else "vehicles needed")
+            self.vehicles.caption.setStyleSheet("")
         self.deadhead.value.setText(format_duration(plan.deadhead_seconds))
         self._show_tradeoff(plan)
         self.verified.setVisible(bool(plan.verified))
@@ -260,6 +268,8 @@ class AnswerBar(QFrame):
 
     def show_nothing(self, why: str) -> None:
         self.vehicles.value.setText("–")
+        self.vehicles.caption.setText("vehicles needed")
+        self.vehicles.caption.setStyleSheet("")
         self.deadhead.value.setText("–")
         self._show_classes(None)
         self._show_tradeoff(None)

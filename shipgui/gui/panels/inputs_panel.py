@@ -60,6 +60,64 @@ class _FileRow(QWidget):
         self.remove.setEnabled(bool(source or count))
 
 
+class _VehiclesRow(QWidget):
+    """Vehicles available: one box, or one per vehicle class when the jobs have
+    several; 0 shows "no limit".  Emits ``changed(total, per_class)``."""
+
+    changed = Signal(object, object)
+
+    def __init__(self) -> None:
+        super().__init__()
+        self._layout = QHBoxLayout(self)
+        self._layout.setContentsMargins(0, 0, 0, 0)
+        self.boxes: dict[str | None, QSpinBox] = {}  # None: all classes together
+
+    def show_limits(self, settings: Settings, classes: list[str]) -> None:
+        """Show the limits for ``classes`` (several: a box per class) without emitting;
+        the boxes are only made anew when the classes changed."""
+        # One box for all when there is one class or a limit for all is set (set it to
+        # "no limit" to get a box per class).
+        per_class = len(classes) > 1 and settings.vehicles is None
+        keys: list[str | None] = list(classes) if per_class else [None]
+        named = dict(settings.class_vehicles)
+        if list(self.boxes) == keys:
+            for key, box in self.boxes.items():
+                box.blockSignals(True)
+                box.setValue((settings.vehicles or 0) if key is None else named.get(key, 0))
+                box.blockSignals(False)
+            return
+        for box in self.boxes.values():
+            box.blockSignals(True)
+            box.deleteLater()
+        while self._layout.count():
+            item = self._layout.takeAt(0)
+            if item.widget() is not None:
+                item.widget().deleteLater()
+        self.boxes = {}
+        for key in keys:
+            box = QSpinBox()
+            box.setRange(0, 9999)
+            box.setSpecialValueText("no limit")
+            box.setKeyboardTracking(False)
+            box.setValue((settings.vehicles or 0) if key is None else named.get(key, 0))
+            box.setToolTip("Vehicles you have for the day. With fewer than needed, the plan "
+                           "serves the jobs of the most priority and lists the rest.")
+            box.valueChanged.connect(self._emit)
+            if key is not None:
+                self._layout.addWidget(QLabel(f"{key or '(no class)'}:"))
+            self._layout.addWidget(box)
+            self.boxes[key] = box
+        self._layout.addStretch(1)
+
+    def _emit(self, _value: int) -> None:
+        if None in self.boxes:
+            value = self.boxes[None].value()
+            self.changed.emit(value or None, ())
+        else:
+            self.changed.emit(None, tuple(sorted((c, b.value()) for c, b in self.boxes.items()
+                                                 if b.value())))
+
+
 class InputsPanel(QWidget):
     """Emits ``settings_edited(settings, undo_text)`` for each checked change."""
 
@@ -102,6 +160,7 @@ class InputsPanel(QWidget):
                         "straight-line distance × road factor ÷ average speed")
         self.speed.setToolTip(estimate_tip)
         self.circuity.setToolTip(estimate_tip)
+        self.vehicles = _VehiclesRow()
         self.notes = QLabel("")
         self.notes.setWordWrap(True)
         self.notes.setStyleSheet("color: #6a5420;")
@@ -116,6 +175,7 @@ class InputsPanel(QWidget):
         form.addRow("Day ends", self.day_end)
         form.addRow("Average speed", self.speed)
         form.addRow("Road factor", self.circuity)
+        form.addRow("Vehicles available", self.vehicles)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(8, 8, 8, 8)
         layout.addLayout(form)
@@ -127,6 +187,7 @@ class InputsPanel(QWidget):
         self.day_end.editingFinished.connect(lambda: self._clock_changed("day_end"))
         self.speed.valueChanged.connect(self._speed_changed)
         self.circuity.valueChanged.connect(self._circuity_changed)
+        self.vehicles.changed.connect(self._vehicles_changed)
 
     # ------------------------------------------------------------ showing
     def show_document(self, document: DayDocument) -> None:
@@ -151,6 +212,7 @@ class InputsPanel(QWidget):
             self.day_end.setText(format_clock(s.day_end) if s.day_end is not None else "")
             self.speed.setValue(s.speed_kmh)
             self.circuity.setValue(s.circuity)
+            self.vehicles.show_limits(s, sorted({j.vehicle_class for j in document.jobs}))
         finally:
             self._loading = False
 
@@ -179,6 +241,16 @@ class InputsPanel(QWidget):
 
     def _circuity_changed(self, value: float) -> None:
         self._emit(f"Set road factor to {value:g}", circuity=float(value))
+
+    def _vehicles_changed(self, total: int | None, per_class: tuple) -> None:
+        if total is None and not per_class:
+            text = "Plan with no limit on vehicles"
+        elif total is not None:
+            text = f"Set vehicles available to {total}"
+        else:
+            text = "Set vehicles available to " + ", ".join(
+                f"{c or '(no class)'} {k}" for c, k in per_class)
+        self._emit(text, vehicles=total, class_vehicles=per_class)
 
     def _clock_changed(self, name: str) -> None:
         if self._loading:

@@ -41,6 +41,8 @@ COLOURS = {
     "axis": QColor("#eef1f5"),
     "label": QColor("#2b3642"),
     "day": QColor("#7d8b99"),
+    "moved": QColor("#b5652a"),  # a job a suggestion would move
+    "ghost": QColor(181, 101, 42, 60),  # where it would go
 }
 
 
@@ -86,6 +88,7 @@ class TimelineView(QGraphicsView):
         self._plan: Plan | None = None
         self._names: dict[int, str] = {}
         self._highlight_certificate = False
+        self._moves: dict[str, int] = {}  # job id -> seconds, a suggestion shown
         self._bars: dict[str, JobBar] = {}
         self._pinned_labels: list[QGraphicsItem] = []
         self._pinned_axis: list[QGraphicsItem] = []
@@ -110,6 +113,7 @@ class TimelineView(QGraphicsView):
         self._plan = plan
         self._names = dict(driver_names or {})
         self._message = message
+        self._moves = {}
         self._rebuild()
         if selected:
             self.select_job(selected)
@@ -117,6 +121,13 @@ class TimelineView(QGraphicsView):
     def set_certificate_highlight(self, on: bool) -> None:
         self._highlight_certificate = on
         self._colour_bars()
+
+    def set_moves(self, moves: list[tuple[str, int]]) -> None:
+        """Show suggested slot moves: the jobs in their own colour and, dashed, where
+        they would go (job id, seconds); an empty list clears them."""
+        self._moves = dict(moves)
+        self._rebuild()
+        self.select_jobs([job_id for job_id, _ in moves])
 
     def job_bar(self, job_id: str) -> JobBar | None:
         return self._bars.get(job_id)
@@ -311,6 +322,8 @@ class TimelineView(QGraphicsView):
             job = day.jobs[j]
             rect = QRectF(self._x(job.start), y, (job.end - job.start) / 3600
                           * self._px_per_hour, BAR_HEIGHT)
+            if job.id in self._moves:
+                self._draw_ghost(job, self._moves[job.id], y)
             bar = JobBar(rect, job.id, _job_tooltip(day, job))
             scene.addItem(bar)
             self._bars[job.id] = bar
@@ -321,6 +334,18 @@ class TimelineView(QGraphicsView):
                 text.setBrush(QBrush(COLOURS["job_text"]))
                 text.setPos(rect.x() + 4, rect.y() + (BAR_HEIGHT - metrics.height()) / 2)
                 bar.label = shown
+
+    def _draw_ghost(self, job, shift: int, y: float) -> None:
+        """A dashed outline where a suggestion would move the job."""
+        rect = QRectF(self._x(job.start + shift), y - 2, (job.end - job.start) / 3600
+                      * self._px_per_hour, BAR_HEIGHT + 4)
+        ghost = self.scene().addRect(rect, QPen(COLOURS["moved"], 1.5, Qt.PenStyle.DashLine),
+                                     QBrush(COLOURS["ghost"]))
+        way = "later" if shift > 0 else "earlier"
+        ghost.setToolTip(f"Suggested: {job.id} {format_clock(job.start + shift)}–"
+                         f"{format_clock(job.end + shift)} ({format_minutes(abs(shift))} min "
+                         f"{way}); the customer must agree")
+        ghost.setZValue(3)
 
     def _label(self, k: int) -> str:
         name = self._names.get(k + 1, "")
@@ -357,7 +382,9 @@ class TimelineView(QGraphicsView):
             return
         certificate = set(self._plan.certificate_ids()) if self._highlight_certificate else set()
         for job_id, bar in self._bars.items():
-            if not self._highlight_certificate:
+            if job_id in self._moves:
+                colour = COLOURS["moved"]
+            elif not self._highlight_certificate:
                 colour = COLOURS["job"]
             else:
                 colour = COLOURS["certificate"] if job_id in certificate else COLOURS["muted"]
