@@ -83,3 +83,31 @@ def test_a_day_that_cannot_save_a_vehicle_gets_no_suggestions():
     jobs = [Job(f"J{k}", "Y", "Y", 8 * 3600, 18 * 3600) for k in range(3)]
     search = suggest_moves(build_day(jobs, [], {}), 5)
     assert search.suggestions == () and search.vehicles == 3 and search.complete
+
+
+@pytest.mark.parametrize("seed", range(40))
+def test_jobs_in_every_largest_set_by_brute_force(seed):
+    # Brute force: every antichain of the order listed by networkx.antichains; the
+    # jobs in all of the largest ones against the overlap of the two extremes.
+    from shipgui.core.fleet.precedence import class_indexes
+    from shipgui.core.fleet.suggest import _ClassSearch
+    rng = np.random.default_rng(300 + seed)
+    day = random_day(int(rng.integers(1, 13)), int(rng.integers(1, 4)), seed=seed)
+    follows = can_follow_matrix(day)
+    dag = nx.DiGraph()
+    dag.add_nodes_from(range(day.n))
+    dag.add_edges_from(zip(*follows.nonzero()))
+    sets = [set(a) for a in nx.antichains(dag)]
+    width = max(len(a) for a in sets)
+    largest = [a for a in sets if len(a) == width]
+    expected = sorted(set.intersection(*largest))
+    plan = solve_day(day)
+    search = _ClassSearch(day, class_indexes(day)[0], list(plan.certificate), 3600,
+                          lambda: None)
+    assert sorted(search.in_every_largest()) == expected
+    for a in range(day.n):  # with one job left out
+        rest = [s for s in sets if a not in s]
+        top = max(len(s) for s in rest) if rest else 0
+        if top == width:
+            want = sorted(set.intersection(*[s for s in rest if len(s) == top]))
+            assert sorted(search.in_every_largest((a,))) == want

@@ -223,19 +223,23 @@ class _Flow:
 
 
 def serve_most(day: Day, indexes: list[PrefixIndex], pools: list[Pool], *,
+               every_pool_short: bool = False,
                check: Callable[[], None] | None = None) -> ServedPlan:
     """The routes that serve the most priority with the pools' vehicles (see the
     module docstring), with the proof of the bound.  ``check`` is called between
     stages (it may raise to stop).
 
-    Four flow solves at most (three when all priorities are equal), each on
-    O(n * sites) arcs.
+    Four flow solves at most, each on O(n * sites) arcs: the jobs stage only
+    when priorities differ, the vehicles stage only when some pool has enough
+    vehicles (``every_pool_short`` false): in a pool with fewer than it needs,
+    every plan serving the most uses all its vehicles (one more job could
+    always go on an idle one).
     """
     check = check or (lambda: None)
     arcs = _arcs(day, indexes, pools)
     flow = _Flow(arcs)
     weight, unit = _weights(day)
-    stages = _stage_costs(day, arcs, weight)
+    stages = _stage_costs(day, arcs, weight, fewest_vehicles=not every_pool_short)
     conceded = None
     for number, cost in enumerate(stages):
         check()
@@ -266,9 +270,10 @@ def _weights(day: Day) -> tuple[np.ndarray, int]:
     return units // max(unit, 1), max(unit, 1)
 
 
-def _stage_costs(day: Day, arcs: _Arcs, weight: np.ndarray) -> list[np.ndarray]:
-    """Priority served; jobs served (when priorities differ); vehicles out; empty
-    driving (pull-out, drives, pull-in): costs per forward arc."""
+def _stage_costs(day: Day, arcs: _Arcs, weight: np.ndarray, *,
+                 fewest_vehicles: bool) -> list[np.ndarray]:
+    """Priority served; jobs served (when priorities differ); vehicles out (when
+    asked); empty driving (pull-out, drives, pull-in): costs per forward arc."""
     kind, job = arcs.kind, arcs.job
     serve, start = kind == SERVE, kind == START
     stages = []
@@ -279,9 +284,10 @@ def _stage_costs(day: Day, arcs: _Arcs, weight: np.ndarray) -> list[np.ndarray]:
         cost = np.zeros(len(kind), dtype=np.int64)
         cost[serve] = -1
         stages.append(cost)
-    cost = np.zeros(len(kind), dtype=np.int64)
-    cost[start] = 1
-    stages.append(cost)
+    if fewest_vehicles:
+        cost = np.zeros(len(kind), dtype=np.int64)
+        cost[start] = 1
+        stages.append(cost)
     t = day.travel
     cost = np.zeros(len(kind), dtype=np.int64)
     link, finish = kind == LINK, kind == FINISH

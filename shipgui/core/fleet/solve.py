@@ -120,8 +120,9 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
                  for index in indexes]
         needed = [sum(width[c] for c in pool.classes) for pool in pools]
         t = stage("matching", t)
-        if any(pool.vehicles < need for pool, need in zip(pools, needed)):
-            return _solve_short(day, indexes, pools, sum(needed), kernel,
+        short = [pool.vehicles < need for pool, need in zip(pools, needed)]
+        if any(short):
+            return _solve_short(day, indexes, pools, sum(needed), all(short), kernel,
                                 stop_if_cancelled, stage, timings)
     routes: list[tuple[int, ...]] = []
     certificate: list[int] = []
@@ -169,12 +170,12 @@ def _everything_served(day: Day, vehicles: int) -> Shortfall:
 
 
 def _solve_short(day: Day, indexes: list[PrefixIndex], pools: list[Pool], needed: int,
-                 kernel: str, check: Callable[[], None], stage: Callable[[str, float], float],
-                 timings: dict[str, float]) -> Plan:
+                 every_pool_short: bool, kernel: str, check: Callable[[], None],
+                 stage: Callable[[str, float], float], timings: dict[str, float]) -> Plan:
     """The plan that serves the most priority with the vehicles available, checked
     independently."""
     t = time.perf_counter()
-    served = serve_most(day, indexes, pools, check=check)
+    served = serve_most(day, indexes, pools, every_pool_short=every_pool_short, check=check)
     t = stage("serving the most", t)
     routes = served.routes
     certificate: list[int] = []

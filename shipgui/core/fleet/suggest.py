@@ -41,7 +41,7 @@ from ..day import build_day
 from ..model import Day
 from ._hk_kernel import Links, Prefixes, hk_match
 from .matching import maximum_matching
-from .precedence import PrefixIndex, class_indexes
+from .precedence import PrefixIndex, class_indexes, prefix_index
 
 __all__ = ["Move", "Suggestion", "SuggestionSearch", "suggest_moves", "moved_day",
            "DEFAULT_MAX_MOVE"]
@@ -142,38 +142,26 @@ def moved_day(day: Day, moves) -> Day:
                      plan_date=day.plan_date, sources=dict(day.sources))
 
 
-class _ClassSearch:
-    """The search within one vehicle class (local job numbers of ``index``)."""
+class _Relation:
+    """The "can follow" order of one class in prefix form, with a maximum matching
+    kept as the warm start for changed orders: links between unchanged jobs stay
+    valid, so a few augmenting paths finish the matching again."""
 
-    def __init__(self, day: Day, index: PrefixIndex, certificate: list[int], max_move: int,
-                 check: Callable[[], None]) -> None:
-        self.index = index
-        self.check = check
-        jobs = index.jobs
-        self.start = day.start[jobs].astype(np.int64)
-        self.ready = (day.end[jobs] + day.settings.turnaround).astype(np.int64)
-        self.origin = day.origin[jobs]
-        self.dest = day.destination[jobs]
+    def __init__(self, day: Day) -> None:
+        self.index = prefix_index(day, np.arange(day.n))
+        self.group_of = np.empty(day.n, dtype=np.int64)
+        self.group_of[self.index.order] = self.index.group_of_position()
+        self.start = day.start.astype(np.int64)
+        self.ready = (day.end + day.settings.turnaround).astype(np.int64)
+        self.origin = day.origin
         self.travel = day.travel
-        self.turnaround = day.settings.turnaround
-        self.group_of = np.empty(index.m, dtype=np.int64)
-        self.group_of[index.order] = index.group_of_position()
-        self.certificate = certificate
-        self.width = len(certificate)
-        # The class's matching, the warm start for every changed order: links
-        # between unchanged jobs stay valid, so a few augmenting paths finish it.
-        self.matching = maximum_matching(index, day=day)
-        self.movable = [day.jobs[int(jobs[j])].movable for j in range(index.m)]
-        self.windows = _windows(day, jobs, max_move)
-        self.checked = 0
-        self.complete = True
-        self.pair_work = 0
+        self.succ = maximum_matching(self.index, day=day).succ
 
-    # ------------------------------------------------------------ fleet
-    def fleet(self, shifts: dict[int, int], *, loose: tuple[int, ...] = ()) -> int:
-        """Vehicles the class needs with ``shifts`` (local job -> seconds) applied
-        and the ``loose`` jobs cut off from every other job."""
-        self.checked += 1
+    def largest(self, shifts: dict[int, int], loose: tuple[int, ...]) -> tuple[int, np.ndarray]:
+        """(vehicles needed, a largest set of incompatible jobs as a mask) with
+        ``shifts`` applied and the ``loose`` jobs cut off from every other job.  The
+        set is the one König's construction gives from the matching's last search,
+        the same for every maximum matching (the side nearest the chain starts)."""
         start, ready = self.start.copy(), self.ready.copy()
         for j, d in shifts.items():
             start[j] += d
@@ -184,7 +172,7 @@ class _ClassSearch:
         changed = tuple(shifts) + loose
         index = _patched(self.index, self.group_of, start, ready, self.origin, self.travel,
                          changed)
-        succ, pred = self.matching.succ.copy(), np.full(index.m, -1, dtype=np.int64)
+        succ, pred = self.succ.copy(), np.full(index.m, -1, dtype=np.int64)
         linked = np.flatnonzero(succ >= 0)
         pred[succ[linked]] = linked
         for j in changed:
@@ -194,8 +182,66 @@ class _ClassSearch:
             if pred[j] >= 0:
                 succ[pred[j]] = -1
                 pred[j] = -1
-        hk_match(Prefixes(index.order, index.group_start, index.latest), Links(succ, pred))
-        return index.m - int(np.count_nonzero(succ >= 0))
+        reached_pos, reached_right = hk_match(
+            Prefixes(index.order, index.group_start, index.latest), Links(succ, pred))
+        reached_left = np.zeros(index.m, dtype=bool)
+        reached_left[index.order[reached_pos]] = True
+        return index.m - int(np.count_nonzero(succ >= 0)), reached_right & ~reached_left
+
+
+def _class_days(day: Day, jobs: np.ndarray) -> tuple[Day, Day]:
+    """The class's jobs as a day of their own, and the same day with time running
+    backwards (end becomes start, origin and destination swap, travel reversed):
+    its order is the reverse order, so its König set is the other extreme."""
+    own = [day.jobs[int(k)] for k in jobs]
+    back = [dataclasses.replace(j, origin=j.destination, destination=j.origin,
+                                start=-j.end, end=-j.start) for j in own]
+    return (Day(tuple(own), day.site_ids, day.sites, day.travel, day.settings),
+            Day(tuple(back), day.site_ids, day.sites, day.travel.T, day.settings))
+
+
+class _ClassSearch:
+    """The search within one vehicle class (local job numbers of ``index``)."""
+
+    def __init__(self, day: Day, index: PrefixIndex, certificate: list[int], max_move: int,
+                 check: Callable[[], None]) -> None:
+        self.index = index
+        self.check = check
+        jobs = index.jobs
+        own, back = _class_days(day, jobs)
+        self.forward, self.backward = _Relation(own), _Relation(back)
+        self.start = self.forward.start
+        self.ready = self.forward.ready
+        self.origin = own.origin
+        self.dest = own.destination
+        self.travel = day.travel
+        self.certificate = certificate
+        self.width = len(certificate)
+        self.movable = [day.jobs[int(jobs[j])].movable for j in range(index.m)]
+        self.windows = _windows(day, jobs, max_move)
+        self.checked = 0
+        self.complete = True
+        self.pair_work = 0
+
+    # ------------------------------------------------------------ fleet
+    def fleet(self, shifts: dict[int, int]) -> int:
+        """Vehicles the class needs with ``shifts`` (local job -> seconds) applied."""
+        self.checked += 1
+        return self.forward.largest(shifts, ())[0]
+
+    def in_every_largest(self, loose: tuple[int, ...] = ()) -> list[int]:
+        """The jobs in every largest set of incompatible jobs once the ``loose`` jobs
+        are left out.  The largest sets form a lattice (Dilworth, "Some
+        combinatorial problems on partially ordered sets", Proc. Symposia in
+        Applied Mathematics 10, 1960); a job in its least and its greatest element
+        is in every element between them, so the answer is the overlap of the two
+        extremes: König's set of the order and of the reversed order."""
+        self.checked += 2
+        _, low = self.forward.largest({}, loose)
+        _, high = self.backward.largest({}, loose)
+        both = low & high
+        both[list(loose)] = False
+        return np.flatnonzero(both).tolist()
 
     # ------------------------------------------------------------ candidates
     def shifts(self, j: int) -> list[int]:
@@ -226,8 +272,7 @@ class _ClassSearch:
     def singles(self, count: int) -> list[tuple[tuple[int, int], ...]]:
         """Up to ``count`` single moves that save a vehicle, fewest minutes first; at
         most one per job and direction (the smallest)."""
-        always = [j for j in self.certificate
-                  if self.movable[j] and self.fleet({}, loose=(j,)) == self.width]
+        always = [j for j in self.in_every_largest() if self.movable[j]]
         tries = sorted((abs(d), j, d) for j in always for d in self.shifts(j))
         found, done = [], set()
         for _, j, d in tries:
@@ -245,21 +290,27 @@ class _ClassSearch:
         """Up to ``count`` pairs of moves that save a vehicle, fewest total minutes
         first, leaving out pairs that contain a single move found already.
 
-        Candidates: for two certificate jobs, their ``_PAIR_SHIFTS`` smallest shifts
-        each way combined, and the split of their gap when one nearly fits after
-        the other.  A pair is only tried when every largest set holds one of the
-        two jobs (with both cut loose, one vehicle more is needed, not two).
+        Only pairs of jobs that meet every largest set can help: a with b in every
+        largest set that a is not in (or a in all of them, and b a certificate
+        job).  For such a pair: their ``_PAIR_SHIFTS`` smallest shifts each way
+        combined, and the split of their gap when one nearly fits after the other.
         """
         known = {move for found in singles for move in found}
+        always = set(self.in_every_largest())
         movable = [j for j in self.certificate if self.movable[j]]
         options = {j: _smallest_each_way(self.shifts(j)) for j in movable}
+        pairs = set()
+        for a in movable:
+            self.check()
+            partners = movable if a in always else self.in_every_largest((a,))
+            pairs.update((min(a, b), max(a, b)) for b in partners
+                         if b != a and self.movable[b] and b in options)
         tries = []
-        for x, a in enumerate(movable):
-            for b in movable[x + 1:]:
-                tries += _combinations(a, options[a], b, options[b], known)
-                tries += self._closing(a, b) + self._closing(b, a)
+        for a, b in sorted(pairs):
+            tries += _combinations(a, options[a], b, options[b], known)
+            tries += self._closing(a, b) + self._closing(b, a)
         tries.sort()
-        found, covers = [], {}
+        found = []
         for _, moves in tries:
             if len(found) == count:
                 break
@@ -267,14 +318,9 @@ class _ClassSearch:
                 self.complete = False
                 break
             self.check()
-            pair = (moves[0][0], moves[1][0])
-            if pair not in covers:
-                self.pair_work += 1
-                covers[pair] = self.fleet({}, loose=pair) == self.width + 1
-            if covers[pair]:
-                self.pair_work += 1
-                if self.fleet(dict(moves)) < self.width:
-                    found.append(moves)
+            self.pair_work += 1
+            if self.fleet(dict(moves)) < self.width:
+                found.append(moves)
         return found
 
     def _closing(self, a: int, b: int) -> list[tuple[int, tuple]]:
