@@ -209,3 +209,19 @@ def test_overlapping_jobs_keep_the_higher_priorities():
     assert sorted(day.jobs[k].id for k in plan.shortfall.unserved) == ["J0", "J2"]
     assert plan.shortfall.served_priority == plan.shortfall.served_upper_bound == 5000
 
+
+
+def test_cancel_reaches_inside_the_vehicle_limit_stages():
+    from shipgui.core.fleet.solve import Cancelled
+    from tests.support.days import regional_day
+    day = regional_day(300, 20, seed=2)
+    day = rebuild(day, settings=dataclasses.replace(day.settings, vehicles=10))
+    calls = []
+
+    def cancelled():
+        calls.append(1)
+        return len(calls) >= 4  # relation, matching, then inside the flow stages
+
+    with pytest.raises(Cancelled):
+        solve_day(day, cancelled=cancelled)
+    assert len(calls) == 4

@@ -29,6 +29,7 @@ STAGE_NAMES = {
     "relation": "Working out which jobs can follow which",
     "matching": "Pairing jobs onto vehicles",
     "least deadhead": "Finding the routes with the least empty driving",
+    "serving the most": "Choosing the jobs the vehicles available can serve",
     "routes": "Writing the routes",
     "verification": "Checking the plan independently",
 }
