@@ -10,16 +10,19 @@ from __future__ import annotations
 
 from reportlab.platypus import Flowable, LongTable, Paragraph, TableStyle
 
-from shipgui.core import format_clock
+from shipgui.core.clock import format_day_clock
+from shipgui.core.clock import format_duration as duration_text
 from shipgui.core.fleet.shortfall import priority_text, service_levels, unserved_reasons
 from shipgui.core.fleet.suggest import SuggestionSearch
 from shipgui.core.model import PRIORITY_UNIT, Plan, priority_units
 
 from .pages import SectionStart
 from .styles import FRAME_WIDTH, grid_table_style, heading, styles
-from .text import duration_text, esc, slot_text
+from .text import LIMITS, esc, slot_text
 
 __all__ = ["build_unserved", "build_suggestions", "available_text"]
+
+_ID, _NAME = LIMITS["id"], LIMITS["name"]  # characters printed of an id, of a name
 
 
 def available_text(plan: Plan) -> str:
@@ -64,12 +67,12 @@ def _unserved_table(plan: Plan) -> LongTable:
     rows = [[Paragraph(h, st["cell_head"]) for h in head]]
     for k in sorted(sf.unserved, key=lambda k: (int(day.start[k]), k)):
         job = day.jobs[k]
-        place = esc(day.site_label(job.origin))
+        place = esc(day.site_label(job.origin), _NAME)
         if job.destination != job.origin:
-            place += " \u2192 " + esc(day.site_label(job.destination))
-        rows.append([Paragraph(f"<b>{esc(job.id)}</b>", st["cell"]),
+            place += " \u2192 " + esc(day.site_label(job.destination), _NAME)
+        rows.append([Paragraph(f"<b>{esc(job.id, _ID)}</b>", st["cell"]),
                      Paragraph(slot_text(job), st["cell"]), Paragraph(place, st["cell_small"]),
-                     Paragraph(esc(job.customer), st["cell_small"]),
+                     Paragraph(esc(job.customer, _NAME), st["cell_small"]),
                      Paragraph(priority_text(priority_units(job)), st["cell_right"]),
                      Paragraph(esc(reasons.get(k, "")), st["cell_small"])])
     table = LongTable(rows, colWidths=widths, repeatRows=1)
@@ -108,10 +111,11 @@ def _proof(plan: Plan) -> list[Flowable]:
     if conceded:
         if simple:
             title = f"The other {len(conceded)} jobs (at most one each)"
-            ids = " ".join(esc(day.jobs[k].id) for k, _ in conceded)
+            ids = " ".join(esc(day.jobs[k].id, _ID) for k, _ in conceded)
         else:
             title = "Counted in full"
-            ids = ", ".join(f"{esc(day.jobs[k].id)} ({priority_text(v)})" for k, v in conceded)
+            ids = ", ".join(f"{esc(day.jobs[k].id, _ID)} ({priority_text(v)})"
+                            for k, v in conceded)
             ids += f". Together {priority_text(sum(v for _, v in conceded))}."
         story += [*heading(title, room=40), Paragraph(ids, st["small"])]
     story.append(Paragraph(
@@ -136,7 +140,8 @@ def _groups_table(plan: Plan, levels, simple: bool) -> LongTable:
     widths.append(FRAME_WIDTH - sum(widths))
     rows = [[Paragraph(h, st["cell_head"]) for h in head]]
     for number, level in enumerate(levels, start=1):
-        ids = " ".join(f"[{esc(day.jobs[k].id)}]" if k in unserved else esc(day.jobs[k].id)
+        ids = " ".join(f"[{esc(day.jobs[k].id, _ID)}]" if k in unserved
+                       else esc(day.jobs[k].id, _ID)
                        for k in sorted(level.jobs, key=lambda k: (int(day.start[k]), k)))
         gives = min(level.vehicles, len(level.jobs))
         row = [str(number), str(len(level.jobs)), str(level.vehicles),
@@ -181,11 +186,12 @@ def build_suggestions(plan: Plan, search: SuggestionSearch | None) -> list[Flowa
                  ("#", "Moves", "Minutes moved", "Vehicles after")]]
         for number, suggestion in enumerate(search.suggestions, start=1):
             moves = "<br/>".join(
-                f"<b>{esc(jobs[m.job].id)}</b> {slot_text(jobs[m.job])} \u2192 "
-                f"{format_clock(jobs[m.job].start + m.shift)}\u2013"
-                f"{format_clock(jobs[m.job].end + m.shift)} "
+                f"<b>{esc(jobs[m.job].id, _ID)}</b> {slot_text(jobs[m.job])} \u2192 "
+                f"{format_day_clock(jobs[m.job].start + m.shift)}\u2013"
+                f"{format_day_clock(jobs[m.job].end + m.shift)} "
                 f"({duration_text(abs(m.shift))} {'later' if m.shift > 0 else 'earlier'}"
-                f"{', ' + esc(jobs[m.job].customer) if jobs[m.job].customer else ''})"
+                f"{', ' + esc(jobs[m.job].customer, _NAME) if jobs[m.job].customer else ''}"
+                ")"
                 for m in suggestion.moves)
             rows.append([Paragraph(str(number), st["cell"]), Paragraph(moves, st["cell"]),
                          Paragraph(duration_text(suggestion.moved_seconds), st["cell_right"]),

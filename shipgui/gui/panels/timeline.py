@@ -342,8 +342,8 @@ class TimelineView(QGraphicsView):
         ghost = self.scene().addRect(rect, QPen(COLOURS["moved"], 1.5, Qt.PenStyle.DashLine),
                                      QBrush(COLOURS["ghost"]))
         way = "later" if shift > 0 else "earlier"
-        ghost.setToolTip(f"Suggested: {job.id} {format_clock(job.start + shift)}–"
-                         f"{format_clock(job.end + shift)} ({format_minutes(abs(shift))} min "
+        ghost.setToolTip(f"Suggested: {job.id} {format_day_clock(job.start + shift)}–"
+                         f"{format_day_clock(job.end + shift)} ({format_duration(abs(shift))} "
                          f"{way}); the customer must agree")
         ghost.setZValue(3)
 
