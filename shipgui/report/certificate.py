@@ -73,6 +73,7 @@ def build_certificate(plan: Plan) -> list[Flowable]:
         Paragraph(f"Why {plan.vehicles} vehicle{'s' if plan.vehicles != 1 else ''} "
                   "is the minimum", st["title"]),
         Paragraph(_statement(size, plan.vehicles), st["statement"]),
+        *_served_only(plan),
         Paragraph(_rule_text(plan), st["body"]),
         *_at_a_glance(plan),
         *heading(f"The {size} jobs"),
@@ -147,6 +148,16 @@ def _pair_ids(plan: Plan, reason: PairReason) -> str:
     jobs = plan.day.jobs
     return (f"<b>{esc(jobs[reason.first].id, LIMITS['id'])}</b> then "
             f"<b>{esc(jobs[reason.second].id, LIMITS['id'])}</b>")
+
+
+def _served_only(plan: Plan) -> list[Flowable]:
+    """With fewer vehicles than needed, the proof is about the jobs served."""
+    sf = plan.shortfall
+    if sf is None or not sf.unserved:
+        return []
+    return [Paragraph(f"This concerns the {plan.day.n - len(sf.unserved)} jobs the plan serves "
+                      "with the vehicles available; the jobs not served, and why no more fit, "
+                      "are on the pages \u201cJobs not served\u201d.", styles()["body"])]
 
 
 def _statement(size: int, vehicles: int) -> str:

@@ -58,7 +58,8 @@ def _write(tmp_path, header, row):
     (["--vehicles", "two"], "whole number"),
     (["--vehicles", "3", "--vehicles", "van=1"], "not both"),
     (["--vehicles", "=2"], "class name is missing"),
-    (["--suggest", "0"], "1 suggestion or more"),
+    (["--suggest", "0"], "1 to 50 suggestions"),
+    (["--suggest", "51"], "1 to 50 suggestions"),
     (["--max-move", "30"], "goes with --suggest"),
     (["--suggest", "2", "--max-move", "soon"], "--max-move"),
 ])
