@@ -112,18 +112,10 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
     indexes = class_indexes(day)
     t = stage("relation", t)
     if day.settings.vehicle_limit:
-        if day.settings.max_day is not None:
-            raise InputError("a limit on the vehicles available together with a working-day "
-                             "limit is not yet supported; plan with one of them")
-        pools = vehicle_pools(day)
-        width = [index.m - maximum_matching(index, kernel=kernel, day=day).size
-                 for index in indexes]
-        needed = [sum(width[c] for c in pool.classes) for pool in pools]
-        t = stage("matching", t)
-        short = [pool.vehicles < need for pool, need in zip(pools, needed)]
-        if any(short):
-            return _solve_short(day, indexes, pools, sum(needed), all(short), kernel,
-                                stop_if_cancelled, stage, timings)
+        short = _short_plan(day, indexes, kernel, stop_if_cancelled, stage, timings)
+        if short is not None:
+            return short
+        t = time.perf_counter()
     routes: list[tuple[int, ...]] = []
     certificate: list[int] = []
     savings: list[int] = []  # per extra vehicle in one class; can be negative
@@ -167,6 +159,27 @@ def _everything_served(day: Day, vehicles: int) -> Shortfall:
                   for p in vehicle_pools(day))
     total = int(priority.sum())
     return Shortfall((), total, total, vehicles, ServiceProof(priority, zero, zero, pools))
+
+
+def _short_plan(day: Day, indexes: list[PrefixIndex], kernel: str,
+                check: Callable[[], None], stage: Callable[[str, float], float],
+                timings: dict[str, float]) -> Plan | None:
+    """The plan for fewer vehicles than needed, or None when every pool of vehicles
+    has enough (then the minimum-fleet plan stands)."""
+    if day.settings.max_day is not None:
+        raise InputError("a limit on the vehicles available together with a working-day "
+                         "limit is not yet supported; plan with one of them")
+    t = time.perf_counter()
+    pools = vehicle_pools(day)
+    width = [index.m - maximum_matching(index, kernel=kernel, day=day).size
+             for index in indexes]
+    needed = [sum(width[c] for c in pool.classes) for pool in pools]
+    stage("matching", t)
+    short = [pool.vehicles < need for pool, need in zip(pools, needed)]
+    if not any(short):
+        return None
+    return _solve_short(day, indexes, pools, sum(needed), all(short), kernel, check, stage,
+                        timings)
 
 
 def _solve_short(day: Day, indexes: list[PrefixIndex], pools: list[Pool], needed: int,
