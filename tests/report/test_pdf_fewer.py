@@ -6,8 +6,8 @@ from shipgui.core import solve_day
 from shipgui.core.demo import load_demo
 from shipgui.core.fleet.suggest import suggest_moves
 from shipgui.report import build_pdf_bytes
-from tests.report.pdf_helpers import ids_in, page_texts
 from tests.support.days import rebuild
+from tests.support.pdf import ids_in, page_texts
 
 
 def _short_demo(vehicles=25):

@@ -37,6 +37,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..errors import InputError
 from ..model import Day
 from ._hk_kernel import Links, Prefixes, hk_match
 from .matching import maximum_matching
@@ -96,6 +97,9 @@ def suggest_moves(day: Day, count: int = 5, *, max_move: int = DEFAULT_MAX_MOVE,
     """
     from .solve import solve_day  # the normal solver, also for the final check
 
+    if day.settings.max_day is not None:
+        raise InputError("looking for moves that save a vehicle under a working-day limit "
+                         "is not yet supported")
     t0 = time.perf_counter()
     check = check or (lambda: None)
     # The fleet that serves every job, whatever vehicles are available.
