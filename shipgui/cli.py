@@ -514,9 +514,9 @@ def _suggestion_lines(plan: Plan, search: SuggestionSearch) -> list[str]:
         for m in suggestion.moves:
             job = jobs[m.job]
             way = "later" if m.shift > 0 else "earlier"
-            parts.append(f"{job.id} {format_clock(job.start)}-{format_clock(job.end)} -> "
-                         f"{format_clock(job.start + m.shift)}-{format_clock(job.end + m.shift)}"
-                         f" ({format_minutes(abs(m.shift))} min {way})")
+            before = f"{format_day_clock(job.start)}-{format_day_clock(job.end)}"
+            after = f"{format_day_clock(job.start + m.shift)}-{format_day_clock(job.end + m.shift)}"
+            parts.append(f"{job.id} {before} -> {after} ({format_minutes(abs(m.shift))} min {way})")
         lines.append(f"  {number}. {'; '.join(parts)}: {suggestion.vehicles} vehicles")
     lines.append("  Each move changes a booked slot: the customer must agree first.")
     return lines

@@ -23,8 +23,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from shipgui.core import Day, format_clock
-from shipgui.core.clock import format_duration
+from shipgui.core import Day
+from shipgui.core.clock import format_day_clock, format_duration
 from shipgui.core.fleet.suggest import DEFAULT_MAX_MOVE, Suggestion, SuggestionSearch
 
 __all__ = ["SavingsPanel", "move_text", "AGREE"]
@@ -39,9 +39,9 @@ def move_text(day: Day, suggestion: Suggestion) -> str:
     for m in suggestion.moves:
         job = day.jobs[m.job]
         way = "later" if m.shift > 0 else "earlier"
-        lines.append(f"{job.id} {format_clock(job.start)}–{format_clock(job.end)} → "
-                     f"{format_clock(job.start + m.shift)}–{format_clock(job.end + m.shift)} "
-                     f"({format_duration(abs(m.shift))} {way})")
+        before = f"{format_day_clock(job.start)}–{format_day_clock(job.end)}"
+        after = f"{format_day_clock(job.start + m.shift)}–{format_day_clock(job.end + m.shift)}"
+        lines.append(f"{job.id} {before} → {after} ({format_duration(abs(m.shift))} {way})")
     return "\n".join(lines)
 
 

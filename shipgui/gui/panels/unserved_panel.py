@@ -19,7 +19,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from shipgui.core import Plan, format_clock
+from shipgui.core import Plan
+from shipgui.core.clock import format_day_clock
 from shipgui.core.fleet.shortfall import priority_text, unserved_reasons
 from shipgui.core.model import priority_units
 
@@ -82,9 +83,9 @@ class UnservedModel(QAbstractTableModel):
                 job = day.jobs[k]
                 places = job.origin if job.destination == job.origin \
                     else f"{job.origin} → {job.destination}"
-                self._rows.append((job.id, f"{format_clock(job.start)}–{format_clock(job.end)}",
-                                   places, job.customer, priority_text(priority_units(job)),
-                                   reasons.get(k, "")))
+                slot = f"{format_day_clock(job.start)}–{format_day_clock(job.end)}"
+                self._rows.append((job.id, slot, places, job.customer,
+                                   priority_text(priority_units(job)), reasons.get(k, "")))
         self.endResetModel()
 
     def job_id(self, row: int) -> str:
