@@ -24,7 +24,7 @@ from shipgui.core.drivers import DriverPlace, names_by_vehicle
 
 from .actions import make_action, themed_icon
 from .file_actions import FileActions
-from .models.commands import AddJob, ChangeSettings, DeleteJobs, MoveSlots, NameDriver
+from .models.commands import AddJob, ChangeSettings, DeleteJobs, NameDriver
 from .models.jobs_model import Column, JobsModel
 from .panels.answer_bar import AnswerBar
 from .panels.certificate_panel import CertificatePanel
@@ -32,14 +32,12 @@ from .panels.export_progress import ExportProgress
 from .panels.inputs_panel import InputsPanel
 from .panels.jobs_panel import JobsPanel
 from .panels.problems import ProblemBox
-from .panels.savings_panel import SavingsPanel
 from .panels.timeline import TimelineView
-from .panels.unserved_panel import UnservedPanel
 from .recovery import offer_recovery
 from .services.autosave import Autosaver, Recovery
 from .services.settings import AppSettings
-from .services.suggest_worker import SuggestController
 from .services.worker import SolveController, snapshot
+from .shortfall_view import ShortfallView
 from .wording import count
 
 __all__ = ["MainWindow", "CAUTION"]
@@ -63,7 +61,6 @@ class MainWindow(QMainWindow):
         self.problems: list[Problem] = []
         self.driver_places: list[DriverPlace] = []
         self.solver = SolveController(self, delay_ms=solve_delay_ms)
-        self.suggester = SuggestController(self)
         self._make_actions()
         self.jobs_model = JobsModel(self.document, self.undo_stack, self)
         self.files = FileActions(self.document, self.undo_stack, self.settings,
@@ -129,13 +126,11 @@ class MainWindow(QMainWindow):
         self.left_tabs = QTabWidget()
         self.left_tabs.addTab(self.jobs_panel, "Jobs")
         self.left_tabs.addTab(self.inputs_panel, "Day and files")
-        self.savings = SavingsPanel()
-        self.left_tabs.addTab(self.savings, "Save a vehicle")
+        self.fleet = ShortfallView(self.document, self.undo_stack, self)
+        self.left_tabs.addTab(self.fleet.savings, "Save a vehicle")
         self.timeline = TimelineView(pixels_per_hour=self.settings.get("timeline/pixels_per_hour"))
         self.certificate = CertificatePanel()
         self.certificate.setVisible(False)
-        self.unserved = UnservedPanel()
-        self.unserved.setVisible(False)
         self.problem_box = ProblemBox()
         self.problem_list = self.problem_box.list  # clicked problems select their job
         self.caution = QLabel(CAUTION)
@@ -145,7 +140,7 @@ class MainWindow(QMainWindow):
         right = QSplitter(Qt.Orientation.Vertical)
         right.addWidget(self.problem_box)
         right.addWidget(self.timeline)
-        right.addWidget(self.unserved)
+        right.addWidget(self.fleet.unserved)
         right.addWidget(self.certificate)
         right.setStretchFactor(1, 3)
         right.setStretchFactor(2, 1)
@@ -236,13 +231,8 @@ class MainWindow(QMainWindow):
         self.timeline.zoom_changed.connect(
             lambda v: self.settings.set("timeline/pixels_per_hour", v))
         self.certificate.pair_selected.connect(self._on_pair)
-        self.unserved.job_selected.connect(self.jobs_panel.select_job)
-        self.savings.search_requested.connect(self.look_for_moves)
-        self.savings.suggestion_chosen.connect(self._show_moves)
-        self.savings.apply_requested.connect(self.apply_moves)
-        self.suggester.busy_changed.connect(self.savings.set_busy)
-        self.suggester.found.connect(self.savings.show_search)
-        self.suggester.failed.connect(self.savings.show_failure)
+        self.fleet.job_selected.connect(self.jobs_panel.select_job)
+        self.fleet.moves_shown.connect(self.timeline.set_moves)
         self.problem_list.cellClicked.connect(self._on_problem_clicked)
         self.solver.busy_changed.connect(self._on_busy)
         self.solver.stage_changed.connect(lambda text: self.answer.set_busy(True, text))
@@ -311,8 +301,7 @@ class MainWindow(QMainWindow):
         if change.kind in ("reset", "inputs", "insert", "remove") \
                 or change.field == "vehicle_class":
             self.inputs_panel.show_document(self.document)
-        self.suggester.cancel()
-        self.savings.mark_stale()
+        self.fleet.document_changed()
         if change.kind == "reset":
             self.update_title()
             if self.isVisible():
@@ -345,7 +334,7 @@ class MainWindow(QMainWindow):
         self._show_drivers(plan)
         self.certificate.set_plan(plan)
         self.jobs_model.set_plan(plan)
-        self._show_unserved(plan)
+        self.fleet.show_plan(plan, self.right_splitter)
         self.inputs_panel.show_notes(plan.day.warnings)
         self.files.update_actions()
         self.statusBar().showMessage(f"Solved {count(plan.day.n, 'job')} in "
@@ -384,37 +373,10 @@ class MainWindow(QMainWindow):
         self.timeline.set_plan(None, message=why)
         self.certificate.set_plan(None)
         self.jobs_model.set_plan(None)
-        self._show_unserved(None)
+        self.fleet.show_plan(None, self.right_splitter)
         self.files.update_actions()
 
-    def _show_unserved(self, plan: Plan | None) -> None:
-        """The jobs-not-served panel under the timeline, only when there are some."""
-        some = self.unserved.set_plan(plan)
-        if some and self.unserved.isHidden():
-            sizes = self.right_splitter.sizes()
-            room = min(200, sum(sizes) // 3)
-            sizes[1], sizes[2] = max(sizes[1] - room, 100), room
-            self.unserved.setVisible(True)
-            self.right_splitter.setSizes(sizes)
-        self.unserved.setVisible(some)
-
     # ------------------------------------------------------------ user actions
-    def look_for_moves(self, count: int, max_move: int) -> None:
-        """Search, off the GUI thread, for slot moves that save a vehicle."""
-        if self.plan is None or not self.plan_is_current:
-            self.savings.status.setText("Solve the day first (fix the problems shown).")
-            return
-        self.suggester.request(self.plan.day, count, max_move)
-
-    def _show_moves(self, moves: list[tuple[str, int]]) -> None:
-        if self.plan is not None:
-            self.timeline.set_moves(moves)
-
-    def apply_moves(self, moves: list[tuple[str, int]]) -> None:
-        """A suggestion's moves (job id, seconds) as one undoable edit; the panel says
-        the customer must agree first."""
-        if all(self.document.row_of(job_id) >= 0 for job_id, _ in moves):
-            self.undo_stack.push(MoveSlots(self.document, moves))
     def _refuse(self, text: str) -> None:
         self.jobs_panel.show_message(text)
         self.statusBar().showMessage(text, 8000)
@@ -511,7 +473,7 @@ class MainWindow(QMainWindow):
             event.ignore()
             return
         self.solver.cancel()
-        self.suggester.cancel()
+        self.fleet.cancel()
         self.autosaver.stop()
         self.settings.set("window/geometry", self.saveGeometry())
         self.settings.sync()

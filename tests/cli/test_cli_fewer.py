@@ -5,7 +5,15 @@ import json
 import pytest
 
 from shipgui.cli import main
-from tests.cli.test_cli import demo_args
+from shipgui.core.demo import demo_files
+
+
+def demo_args(*extra):
+    """`shipgui solve` on the demo day's files with its settings."""
+    f = demo_files()
+    return ["solve", str(f["jobs"]), "--sites", str(f["sites"]), "--travel", str(f["travel"]),
+            "--turnaround", "10", "--depot", "YARD", "--day-start", "05:00",
+            "--day-end", "27:00", *extra]
 
 
 def test_fewer_vehicles_json_keys_and_every_job_once(tmp_path, capsys):

@@ -14,8 +14,8 @@ from shipgui.core.document import DayDocument
 from shipgui.gui.models.commands import ChangeSettings, MoveSlots
 from shipgui.gui.models.jobs_model import NOT_SERVED, Column, JobsModel
 from shipgui.gui.panels.timeline import COLOURS
-
-from .conftest import WAIT_MS, load_and_wait, small_document
+from tests.support.documents import small_document
+from tests.support.gui import WAIT_MS, load_and_wait
 
 FATAL = QAbstractItemModelTester.FailureReportingMode.Fatal
 HOUR = 3600
@@ -80,14 +80,14 @@ def test_move_slots_is_one_undo_step(qapp):
 def test_window_lists_jobs_not_served(qtbot, window):
     plan = load_and_wait(qtbot, window, _short_document())
     assert plan.shortfall.unserved
-    assert not window.unserved.isHidden()
-    assert window.unserved.model.rowCount() == 2
-    assert "2 of 3 jobs" in window.unserved.summary.text()
+    assert not window.fleet.unserved.isHidden()
+    assert window.fleet.unserved.model.rowCount() == 2
+    assert "2 of 3 jobs" in window.fleet.unserved.summary.text()
     assert "not served" in window.answer.vehicles.caption.text()
     # More vehicles: everything served, the panel goes away (one undoable setting).
     with qtbot.waitSignal(window.plan_shown, timeout=WAIT_MS):
         window.inputs_panel.vehicles.boxes[None].setValue(3)
-    assert window.plan.shortfall.unserved == () and window.unserved.isHidden()
+    assert window.plan.shortfall.unserved == () and window.fleet.unserved.isHidden()
     assert window.undo_stack.undoText() == "Set vehicles available to 3"
     assert window.answer.vehicles.caption.text() == "vehicles needed"
 
@@ -107,8 +107,8 @@ def test_vehicles_available_per_class(qtbot, window):
 def test_save_a_vehicle_shows_applies_and_undoes(qtbot, window):
     load_and_wait(qtbot, window, _near_miss_document())
     assert window.plan.vehicles == 2
-    panel = window.savings
-    with qtbot.waitSignal(window.suggester.found, timeout=WAIT_MS):
+    panel = window.fleet.savings
+    with qtbot.waitSignal(window.fleet.suggester.found, timeout=WAIT_MS):
         panel.find.click()
     assert panel.table.rowCount() >= 1 and "LATE" in panel.table.item(0, 0).text()
     panel.table.selectRow(0)
