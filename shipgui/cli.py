@@ -528,7 +528,7 @@ def _deadhead_lines(plan: Plan) -> list[str]:
     if plan.workday is not None:
         least = {"proven least": f" (the least possible with {plan.vehicles} vehicles "
                                  "within the working day)",
-                 "improved": " (improved; not proven least for this fleet)"}.get(
+                 "searched": " (searched for less; not proven least for this fleet)"}.get(
             plan.workday.deadhead_status, " (not optimised: no time was left)")
     lines = [f"Empty driving: {format_duration(plan.deadhead_seconds)} in all{least}"]
     for row in tradeoff_rows(plan, MAX_TRADEOFF)[1:]:

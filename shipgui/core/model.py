@@ -211,7 +211,8 @@ class WorkdayInfo:
     routes_generated: int = 0
     first_plan_seconds: float = 0.0
     seconds: float = 0.0
-    # "proven least" (for this many vehicles), "improved" or "not optimised"
+    # "proven least" (for this many vehicles), "searched" (less was looked for in
+    # the time given, not proven least) or "not optimised" (no time was left)
     deadhead_status: str = "not optimised"
 
 

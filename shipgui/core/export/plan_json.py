@@ -86,8 +86,8 @@ def _working_day(plan: Plan) -> dict:
         "routes_generated": info.routes_generated,
         "seconds": round(info.seconds, 3),
         "first_plan_seconds": round(info.first_plan_seconds, 3),
-        # "proven least": least empty driving for this many vehicles; "improved":
-        # searched, not proven least; "not optimised": no time was left for it
+        # "proven least": least empty driving for this many vehicles; "searched":
+        # less was looked for, not proven least; "not optimised": no time was left
         "deadhead": info.deadhead_status,
     }
 

@@ -81,18 +81,18 @@ def _less_deadhead(day: Day, classes: list[WorkdayClass], states: list[ClassSear
     total = sum(c.m for c in classes)
     cap = min(_DEADHEAD_SHARE * time_limit, 0.5 + _DEADHEAD_SECONDS_PER_JOB * total)
     end = min(t0 + time_limit, time.monotonic() + cap)
-    proven, improved = True, False
+    proven, searched = True, False
     for k, (problem, state) in enumerate(zip(classes, states)):
         left = end - time.monotonic()
         if left <= 0 or stop() or problem.m > LP_JOBS:
-            return "improved" if improved else "not optimised"
+            return "searched" if searched else "not optimised"
         share = problem.m / max(1, sum(c.m for c in classes[k:]))
         result = less_deadhead(problem, day.travel, depot, state.routes, state.pool,
                                deadline=time.monotonic() + left * share, stop=stop)
-        improved = improved or result.routes is not state.routes
+        searched = True
         state.routes = result.routes
         proven = proven and result.proven_least
-    return "proven least" if proven else ("improved" if improved else "not optimised")
+    return "proven least" if proven else "searched"
 
 
 def _plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
