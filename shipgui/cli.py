@@ -274,8 +274,6 @@ def _settings(args: argparse.Namespace, base: Settings) -> Settings:
     if not (math.isfinite(circuity) and circuity >= 1):
         raise UsageError("--circuity must be at least 1")
     limits = _vehicle_limits(args.vehicles)
-    if (limits or base.vehicle_limit) and max_day is not None:
-        raise UsageError("--vehicles together with --max-day is not yet supported")
     return replace(base, turnaround=turnaround, depot=depot, day_start=day_start,
                    day_end=day_end, speed_kmh=speed, circuity=circuity, max_day=max_day,
                    **limits)
@@ -382,18 +380,22 @@ def _summary(plan: Plan, label: str, args: argparse.Namespace | None = None) -> 
         lines.append("PLAN FAILED ITS INDEPENDENT CHECK - do not use it:")
         lines.extend(f"  {f}" for f in plan.verification_failures)
         return "\n".join(lines)
-    if plan.workday is not None:
-        lines += _workday_lines(plan)
-    elif plan.shortfall is not None and plan.shortfall.unserved:
+    if plan.shortfall is not None and plan.shortfall.unserved:
+        lines += _workday_lines(plan)[:1] if plan.workday is not None else []
         lines += _shortfall_lines(plan)
+    elif plan.workday is not None:
+        lines += _workday_lines(plan)
     else:
         lines.append(f"Vehicles needed: {plan.vehicles} (minimum; independently verified)")
     counts = class_counts(plan)
     if len(counts) > 1:
         lines.append("  by class: " + ", ".join(f"{name or '(no class)'} {count}"
                                                 for name, count in counts))
-    lines += _certificate_lines(plan, args) if not plan.certificate_weights \
-        else _weights_lines(plan, args)
+    short_within_limit = plan.workday is not None and plan.shortfall is not None \
+        and plan.shortfall.unserved
+    if not short_within_limit:  # there the question is which jobs, not how few vehicles
+        lines += _certificate_lines(plan, args) if not plan.certificate_weights \
+            else _weights_lines(plan, args)
     lines += _deadhead_lines(plan)
     for w in day.warnings:
         lines.append(f"Warning: {w}")
@@ -495,9 +497,17 @@ def _shortfall_lines(plan: Plan) -> list[str]:
              f"{priority_text(total - sf.served_priority)} of {priority_text(total)} "
              "(hand them on or rebook them):"]
     lines += ["  " + " ".join(ids[k:k + 10]) for k in range(0, len(ids), 10)]
-    lines.append(f"Served priority {priority_text(sf.served_priority)}: no plan with these "
-                 f"vehicles serves more (proof: --pdf or --json; independently verified)")
-    lines.append(f"Vehicles used: {plan.vehicles}, the fewest for the jobs served")
+    within = " within the working-day limit" if plan.workday is not None else ""
+    if sf.exact:
+        lines.append(f"Served priority {priority_text(sf.served_priority)}: no plan with these "
+                     f"vehicles{within} serves more (proof: --pdf or --json; independently "
+                     "verified)")
+    else:
+        lines.append(f"Served priority {priority_text(sf.served_priority)}; no plan with these "
+                     f"vehicles{within} serves more than {priority_text(sf.served_upper_bound)}"
+                     " (proof: --pdf or --json; independently verified)")
+    if plan.workday is None:
+        lines.append(f"Vehicles used: {plan.vehicles}, the fewest for the jobs served")
     return lines
 
 

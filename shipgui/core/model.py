@@ -260,6 +260,11 @@ class Shortfall:
     served_upper_bound: int
     needed_for_all: int
     proof: ServiceProof | None = None
+    # With a working-day limit the bound is proven by job weights instead: a valid
+    # route of pool p carries at most ``heaviest[p]`` of them, so no plan serves
+    # more than sum(K_p * heaviest[p]) + sum(max(0, priority - weight)).
+    weights: np.ndarray | None = None
+    heaviest: tuple[float, ...] = ()
 
     @property
     def exact(self) -> bool:

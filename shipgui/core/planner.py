@@ -9,7 +9,6 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from .errors import InputError
 from .fleet.solve import Cancelled
 from .fleet.solve import solve_day as solve_fleet
 from .model import Day, Plan
@@ -40,9 +39,6 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
     on_progress : with a limit, called with the best plan's vehicles and the
         proven bound each time either improves.
     """
-    if day.settings.max_day is not None and day.settings.vehicle_limit:
-        raise InputError("a limit on the vehicles available together with a working-day "
-                         "limit is not yet supported; plan with one of them")
     if day.settings.max_day is None:
         return solve_fleet(day, kernel=kernel, least_deadhead=least_deadhead,
                            tradeoff=tradeoff, progress=progress, cancelled=cancelled)

@@ -70,7 +70,6 @@ def _write(tmp_path, header, row):
     (["--suggest", "51"], "1 to 50 suggestions"),
     (["--max-move", "30"], "goes with --suggest"),
     (["--suggest", "2", "--max-move", "soon"], "--max-move"),
-    (["--vehicles", "1", "--max-day", "10:00"], "not yet supported"),
     (["--suggest", "2", "--max-day", "10:00"], "not yet supported"),
 ])
 def test_bad_arguments_exit_2(tmp_path, capsys, args, phrase):

@@ -89,3 +89,17 @@ def test_time_limit_keeps_the_best_plan_and_says_what_is_proven(tmp_path):
     assert plan["verified"] is True and plan["lower_bound"] <= plan["vehicles"]
     assert plan["proven_minimum"] == (plan["lower_bound"] == plan["vehicles"])
     assert plan["working_day"]["search"] in ("time limit", "proven")
+
+
+def test_vehicles_with_max_day_name_the_jobs_to_hand_on(tmp_path, capsys):
+    out = tmp_path / "plan.json"
+    assert main(demo_args("--max-day", "11:00", "--vehicles", "36", "--json", str(out))) == 0
+    plan = json.loads(out.read_text())
+    assert plan["verified"] is True and plan["vehicles"] <= 36
+    served = [j for r in plan["routes"] for j in r["jobs"]]
+    assert sorted(served + plan["unserved"]) == sorted(set(served + plan["unserved"]))
+    assert len(served) + len(plan["unserved"]) == 150
+    assert plan["served_priority"] <= plan["served_upper_bound"] <= 150
+    assert all(r["working_day_minutes"] <= 660 for r in plan["routes"])
+    text = capsys.readouterr().out
+    assert "Not served:" in text and "within the working-day limit" in text

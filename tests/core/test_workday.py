@@ -280,3 +280,71 @@ def test_vehicle_classes_are_planned_apart_and_add_up(seed):
     assert plan.vehicles == minimum_by_subsets(day, day.settings.max_day)
     for route in plan.routes:
         assert len({day.jobs[k].vehicle_class for k in route}) == 1
+
+
+# ------------------------------------------------- fewer vehicles than needed
+
+def _most_priority_by_brute_force(day, vehicles: int) -> int:
+    """Most priority (thousandths) of a job set that ``vehicles`` valid routes cover:
+    every subset, its fewest routes by the subset dynamic programme."""
+    import itertools
+
+    from shipgui.core.model import priority_units
+    from tests.support.workday_reference import minimum_by_subsets
+    best = 0
+    n = day.n
+    for size in range(n, -1, -1):
+        for subset in itertools.combinations(range(n), size):
+            worth = sum(priority_units(day.jobs[k]) for k in subset)
+            if worth <= best:
+                continue
+            part = Day(tuple(day.jobs[k] for k in subset), day.site_ids, day.sites,
+                       day.travel, day.settings) if subset else None
+            if part is None or minimum_by_subsets(part, day.settings.max_day) <= vehicles:
+                best = worth
+    return best
+
+
+@pytest.mark.parametrize("seed", range(10))
+def test_fewer_vehicles_within_the_limit_serve_the_most_priority(seed):
+    rng = np.random.default_rng(seed)
+    base = depot_day(9, 4, seed=seed, span_h=(6, 13))
+    jobs = tuple(dataclasses.replace(j, priority=float(rng.integers(1, 4))) for j in base.jobs)
+    own = max(working_days(base, [[k] for k in range(base.n)])) // 60 + 1
+    full = with_limit(Day(jobs, base.site_ids, base.sites, base.travel, base.settings), own + 60)
+    need = solve_day(full, time_limit=20).vehicles
+    if need < 2:
+        pytest.skip("one vehicle does the whole day")
+    settings = dataclasses.replace(full.settings, vehicles=need - 1)
+    day = Day(jobs, full.site_ids, full.sites, full.travel, settings)
+    plan = solve_day(day, time_limit=20)
+    assert plan.verified, plan.verification_failures
+    sf = plan.shortfall
+    best = _most_priority_by_brute_force(day, need - 1)
+    assert sf.served_priority <= best <= sf.served_upper_bound
+    assert sf.served_priority == best  # small days: the plan found is the best
+    assert plan.vehicles <= need - 1
+    assert sorted([k for r in plan.routes for k in r] + list(sf.unserved)) == list(range(9))
+
+
+def test_the_service_proof_is_checked_independently():
+    from shipgui.core.workday.verify import check_workday_shortfall
+    demo = load_demo()
+    day = Day(demo.jobs, demo.site_ids, demo.sites, demo.travel,
+              dataclasses.replace(demo.settings, max_day=11 * 3600, vehicles=36))
+    plan = solve_day(day, time_limit=30)
+    sf = plan.shortfall
+    assert plan.verified and sf.unserved and sf.served_priority <= sf.served_upper_bound
+    limit = day.settings.max_day
+    ok = check_workday_shortfall(day, plan.routes, plan.certificate, sf, limit)
+    assert ok == []
+    heavier = dataclasses.replace(sf, weights=sf.weights * 1.3)
+    assert any("carries" in f for f in check_workday_shortfall(
+        day, plan.routes, plan.certificate, heavier, limit))
+    lower = dataclasses.replace(sf, served_upper_bound=sf.served_upper_bound - 1000)
+    assert any("not the stated bound" in f or "more priority" in f for f in
+               check_workday_shortfall(day, plan.routes, plan.certificate, lower, limit))
+    too_many = list(plan.routes) + [(sf.unserved[0],)]
+    fixed = dataclasses.replace(sf, unserved=sf.unserved[1:])
+    assert any("vehicles available" in f for f in check_workday_shortfall(
+        day, too_many, plan.certificate, fixed, limit))

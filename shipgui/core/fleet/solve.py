@@ -13,7 +13,6 @@ from collections.abc import Callable
 
 import numpy as np
 
-from ..errors import InputError
 from ..model import Day, Plan, ServiceProof, Shortfall, priority_units
 from .deadhead import TRADEOFF_SHOWN, plan_deadhead
 from .least_deadhead import class_costs, least_cost_links
@@ -166,9 +165,6 @@ def _short_plan(day: Day, indexes: list[PrefixIndex], kernel: str,
                 timings: dict[str, float]) -> Plan | None:
     """The plan for fewer vehicles than needed, or None when every pool of vehicles
     has enough (then the minimum-fleet plan stands)."""
-    if day.settings.max_day is not None:
-        raise InputError("a limit on the vehicles available together with a working-day "
-                         "limit is not yet supported; plan with one of them")
     t = time.perf_counter()
     pools = vehicle_pools(day)
     width = [index.m - maximum_matching(index, kernel=kernel, day=day).size

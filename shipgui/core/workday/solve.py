@@ -11,12 +11,15 @@ import numpy as np
 
 from ..fleet.deadhead import plan_deadhead
 from ..fleet.matching import maximum_matching
-from ..model import Day, Plan, WorkdayInfo
+from ..fleet.precedence import prefix_index
+from ..fleet.shortfall import vehicle_pools
+from ..model import Day, Plan, Shortfall, WorkdayInfo, priority_units
 from .certificate import WEIGHT_TOLERANCE, clean_weights
 from .deadhead import less_deadhead
 from .problem import WorkdayClass, workday_classes
 from .search import LP_JOBS, ClassSearch, search_class, start_class
-from .verify import check_workday_plan
+from .shortfall import serve_most_within_limit
+from .verify import check_workday_plan, check_workday_shortfall
 
 __all__ = ["solve_workday", "Progress", "DEFAULT_TIME_LIMIT"]
 
@@ -25,6 +28,9 @@ DEFAULT_TIME_LIMIT = 60.0  # seconds of search before the best plan is kept
 # a second plus this much per job: a plan with fewer vehicles matters more.
 _DEADHEAD_SHARE = 0.15
 _DEADHEAD_SECONDS_PER_JOB = 0.005
+# With fewer vehicles than the fast plan needs, this share of the time looks for
+# a plan that serves every job before the jobs to hand on are chosen.
+_FULL_FLEET_SHARE = 0.25
 
 
 @dataclass(frozen=True)
@@ -52,6 +58,15 @@ def solve_workday(day: Day, *, time_limit: float = DEFAULT_TIME_LIMIT,
     classes = workday_classes(day, limit)
     antichains = [maximum_matching(c.index, day=day).antichain for c in classes]
     states = [start_class(day, c, a) for c, a in zip(classes, antichains)]
+    if day.settings.vehicle_limit and _short(day, states):
+        # First a short search for the fleet that serves every job: it may fit after all.
+        first = t0 + _FULL_FLEET_SHARE * time_limit
+        for k, problem in enumerate(classes):
+            states[k] = search_class(day, problem, states[k], deadline=first, stop=stop,
+                                     report=lambda _s: None)
+        if _short(day, states):
+            return _short_plan(day, classes, states, antichains, limit, t0,
+                               deadline=t0 + time_limit, stop=stop)
     best = {"vehicles": None, "bound": None}
 
     def report(_state: ClassSearch | None = None) -> None:
@@ -104,6 +119,13 @@ def _plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
     bound = max(len(certificate),
                 math.ceil(sum(w for _, w in weights) - WEIGHT_TOLERANCE) if weights else 0)
     failures = check_workday_plan(day, routes, certificate, dict(weights) or None, bound, limit)
+    shortfall = None
+    if day.settings.vehicle_limit:  # enough vehicles: every job served
+        total_priority = sum(priority_units(j) for j in day.jobs)
+        pools = vehicle_pools(day)
+        shortfall = Shortfall((), total_priority, total_priority, len(routes),
+                              weights=np.zeros(day.n), heaviest=(0.0,) * len(pools))
+        failures += check_workday_shortfall(day, routes, [], shortfall, limit)
     total, per_route = plan_deadhead(day, routes)
     finished = all(s.finished for s in states)
     status = ("proven" if finished else "stopped" if stopped
@@ -123,7 +145,7 @@ def _plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
                 deadhead_seconds=total, route_deadhead_seconds=per_route,
                 least_deadhead=deadhead_status == "proven least",
                 verification_failures=tuple(failures), bound=bound,
-                certificate_weights=tuple(weights), workday=info)
+                certificate_weights=tuple(weights), workday=info, shortfall=shortfall)
 
 
 def _certificate(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
@@ -150,3 +172,43 @@ def _certificate(day: Day, classes: list[WorkdayClass], states: list[ClassSearch
         return jobs, []
     weights.sort(key=lambda item: (int(day.start[item[0]]), item[0]))
     return jobs, weights
+
+
+def _short(day: Day, states: list[ClassSearch]) -> bool:
+    """Whether some pool of vehicles has fewer than the fast plan needs."""
+    return any(pool.vehicles < sum(states[c].vehicles for c in pool.classes)
+               for pool in vehicle_pools(day))
+
+
+def _short_plan(day: Day, classes: list[WorkdayClass], states: list[ClassSearch],
+                antichains: list[np.ndarray], limit: int, t0: float, *, deadline: float,
+                stop: Callable[[], bool]) -> Plan:
+    """The most priority served with the vehicles available, within the limit."""
+    served = serve_most_within_limit(day, classes, vehicle_pools(day), deadline=deadline,
+                                     stop=stop)
+    routes = served.routes
+    unserved = np.zeros(day.n, dtype=bool)
+    unserved[list(served.unserved)] = True
+    certificate: list[int] = []  # the served jobs' plain certificate: fewest routes for them
+    for c in range(len(day.class_names)):
+        jobs = np.flatnonzero(~unserved & (day.vclass == c))
+        if len(jobs):
+            index = prefix_index(day, jobs)
+            certificate.extend(int(k) for k in index.jobs[
+                maximum_matching(index, day=day).antichain])
+    certificate.sort(key=lambda k: (int(day.start[k]), k))
+    priority = np.array([priority_units(j) for j in day.jobs], dtype=np.int64)
+    shortfall = Shortfall(served.unserved, int(priority[~unserved].sum()), served.upper_bound,
+                          sum(s.vehicles for s in states), weights=served.weights,
+                          heaviest=served.heaviest)
+    failures = check_workday_shortfall(day, routes, certificate, shortfall, limit)
+    total, per_route = plan_deadhead(day, routes)
+    info = WorkdayInfo(limit=limit, unlimited_vehicles=sum(len(a) for a in antichains),
+                       lp_bound=None, status="stopped" if stop() else
+                       ("proven" if shortfall.exact else "time limit"),
+                       seconds=time.monotonic() - t0)
+    return Plan(day, tuple(routes), tuple(certificate), not failures,
+                {"working-day search": info.seconds}, "branch-and-price",
+                deadhead_seconds=total, route_deadhead_seconds=per_route,
+                verification_failures=tuple(failures), bound=len(certificate),
+                workday=info, shortfall=shortfall)

@@ -152,3 +152,69 @@ def _check_certificate(day: Day, limit: int, certificate, weights, lower_bound: 
     if lower_bound > vehicles:
         failures.append("the lower bound is above the plan")
     return failures
+
+
+def check_workday_shortfall(day: Day, routes, certificate, shortfall, limit: int) -> list[str]:
+    """Failures of a plan with fewer vehicles than needed under a working-day limit:
+    routes and unserved jobs partition the day, routes are valid and within the
+    limit, no group of vehicles runs more routes than it has, the certificate jobs
+    are served and pairwise do not fit one working day, the served priority adds
+    up, and the weights prove the stated bound (contract section 6)."""
+    from ..fleet.verify_shortfall import _limits
+    from ..model import priority_units
+
+    failures: list[str] = []
+    n = day.n
+    unserved = np.asarray(shortfall.unserved, dtype=np.int64)
+    flat = np.array([k for route in routes for k in route] + unserved.tolist(), dtype=np.int64)
+    if len(flat) and (flat.min() < 0 or flat.max() >= n):
+        return ["a route or the unserved list names a job that does not exist"]
+    if np.any(np.bincount(flat, minlength=n) != 1):
+        failures.append("a job is neither in a route nor listed as not served, or twice")
+    leave, back = _leave_back(day)
+    for number, route in enumerate(routes, start=1):
+        r = np.asarray(route, dtype=np.int64)
+        if len(r) > 1 and not np.all(_follows(day, r[:-1], r[1:])):
+            failures.append(f"vehicle {number}: a job cannot follow the one before it")
+        if len(r) and back[r[-1]] - leave[r[0]] > limit:
+            failures.append(f"vehicle {number}: the working day is longer than the limit")
+    firsts = np.array([r[0] for r in routes if len(r)], dtype=np.int64)
+    groups = _limits(day)
+    for vehicles, mask in groups:
+        if len(firsts) and int(mask[firsts].sum()) > vehicles:
+            failures.append(f"more routes than the {vehicles} vehicles available")
+    cert = np.asarray(certificate, dtype=np.int64)
+    if np.isin(cert, unserved).any() or len(np.unique(cert)) != len(cert):
+        failures.append("a certificate job is not served or listed twice")
+    if len(cert) and np.any(_fit(day, limit, cert[:, None], cert[None, :])):
+        failures.append("two certificate jobs fit one working day")
+    priority = np.array([priority_units(j) for j in day.jobs], dtype=np.int64)
+    served = np.ones(n, dtype=bool)
+    served[unserved] = False
+    if int(priority[served].sum()) != shortfall.served_priority:
+        failures.append("the served priority is not the sum over the jobs served")
+    return failures + _check_service_weights(day, limit, shortfall, groups, priority)
+
+
+def _check_service_weights(day: Day, limit: int, shortfall, groups, priority) -> list[str]:
+    weights = shortfall.weights
+    if weights is None or len(weights) != day.n or len(shortfall.heaviest) != len(groups):
+        return ["there is no proof of the bound"]
+    if np.any(weights < 0) or not np.all(np.isfinite(weights)):
+        return ["a proof weight is negative or not a number"]
+    total = float(np.maximum(priority - weights, 0.0).sum())
+    for (vehicles, mask), stated in zip(groups, shortfall.heaviest):
+        mine = {int(k): float(weights[k]) for k in np.flatnonzero(mask & (weights > 0))}
+        heaviest = heaviest_route_weight(day, limit, mine)
+        if heaviest > stated + TOLERANCE * max(1.0, stated):
+            return [f"a valid route carries {heaviest:.6g} of the weights, more than the "
+                    f"{stated:.6g} the proof counts"]
+        total += vehicles * max(heaviest, stated)
+    proven = math.floor(total + TOLERANCE * max(1.0, total))
+    failures = []
+    if shortfall.served_upper_bound < proven:
+        failures.append(f"the proof gives {proven}, not the stated bound "
+                        f"{shortfall.served_upper_bound} (thousandths of priority)")
+    if shortfall.served_priority > shortfall.served_upper_bound:
+        failures.append("the plan serves more priority than the bound allows")
+    return failures
