@@ -49,13 +49,57 @@ def build_unserved(plan: Plan) -> list[Flowable]:
         Paragraph(f"With {esc(available_text(plan))} vehicles available this plan serves "
                   f"{served} of the {day.n} jobs (priority {priority_text(sf.served_priority)}"
                   f" of {priority_text(total)}); {sf.needed_for_all} vehicles would serve them "
-                  "all. No plan with these vehicles serves more priority: the proof follows.",
+                  "all. " + ("No plan with these vehicles serves more priority: the proof "
+                             "follows." if sf.exact else
+                             "No plan with these vehicles serves more than "
+                             f"{priority_text(sf.served_upper_bound)}: the proof follows."),
                   st["statement"]),
         _unserved_table(plan),
         *heading("Why no more fit"),
-        *_proof(plan),
+        *(_proof(plan) if sf.proof is not None else _weights_proof(plan)),
     ]
     return story
+
+
+def _weights_proof(plan: Plan) -> list[Flowable]:
+    """The proof under a working-day limit: job weights no route carries much of."""
+    st = styles()
+    day, sf = plan.day, plan.shortfall
+    limit = duration_text(day.settings.max_day or 0)
+    pools = [f"{vehicles} vehicles carry at most {vehicles} \u00d7 "
+             f"{heaviest / PRIORITY_UNIT:.3g} = {vehicles * heaviest / PRIORITY_UNIT:.4g}"
+             for (vehicles, _mask), heaviest in zip(_pool_sizes(day), sf.heaviest)]
+    text = ("Why: each job below has a weight. No route within the working day of "
+            f"{limit} carries more than the weight named for its vehicles, so the "
+            f"{'; the '.join(pools)}. Beyond its weight a job can add at most its priority "
+            "less its weight. Adding up, no plan serves more than "
+            f"<b>{priority_text(sf.served_upper_bound)}</b>"
+            + ("; this plan serves as much." if sf.exact else
+               f"; this plan serves {priority_text(sf.served_priority)} (the search for a "
+               "better plan stopped; the answer lies between the two)."))
+    weights = [(k, float(w)) for k, w in enumerate(sf.weights.tolist()) if w > 1e-9]
+    head = ["Job", "Priority", "Weight", "Served"]
+    rows = [[Paragraph(h, st["cell_head"]) for h in head]]
+    unserved = set(sf.unserved)
+    for k, w in sorted(weights, key=lambda item: (int(day.start[item[0]]), item[0])):
+        rows.append([Paragraph(esc(day.jobs[k].id, _ID), st["cell"]),
+                     Paragraph(priority_text(priority_units(day.jobs[k])), st["cell_right"]),
+                     Paragraph(f"{w / PRIORITY_UNIT:.3f}", st["cell_right"]),
+                     Paragraph("no" if k in unserved else "yes", st["cell"])])
+    table = LongTable(rows, colWidths=[80, 60, 60, 50], repeatRows=1)
+    table.setStyle(TableStyle(grid_table_style()))
+    check = ("An independent check, written separately from the planner, confirmed that "
+             "every job is on one route or in the list above, that every route keeps within "
+             "the working day and the vehicles available, and, with its own search for the "
+             "heaviest route, that the weights give the bound." if plan.verified else
+             "THE INDEPENDENT CHECK FAILED: do not rely on this page.")
+    return [Paragraph(text, st["body"]), table, Paragraph(check, st["small"])]
+
+
+def _pool_sizes(day):
+    """(vehicles, class names) per group of vehicles, as the settings give them."""
+    from shipgui.core.fleet.shortfall import vehicle_pools
+    return [(pool.vehicles, pool.classes) for pool in vehicle_pools(day)]
 
 
 def _unserved_table(plan: Plan) -> LongTable:

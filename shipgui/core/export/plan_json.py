@@ -9,7 +9,7 @@ from ..clock import minutes_value as _minutes
 from ..fleet.schedule import VehicleDay, class_counts, vehicle_days
 from ..fleet.shortfall import priority_value, service_levels, unserved_reasons
 from ..fleet.suggest import SuggestionSearch
-from ..model import Plan
+from ..model import PRIORITY_UNIT, Plan
 
 __all__ = ["plan_to_dict", "plan_to_json"]
 
@@ -135,6 +135,14 @@ def _shortfall(plan: Plan) -> dict:
     reasons = unserved_reasons(day, sf)
     if reasons:
         out["unserved_reasons"] = {ids[k]: text for k, text in reasons.items()}
+    if sf.proof is None and sf.weights is not None:  # under a working-day limit
+        out["service_proof"] = {
+            # in priority (as typed): no valid route of a group of vehicles carries more
+            # than its heaviest_route_weight of these
+            "weights": {ids[k]: round(float(w) / PRIORITY_UNIT, 6)
+                        for k, w in enumerate(sf.weights.tolist()) if w > 1e-9},
+            "heaviest_route_weight": [round(float(w) / PRIORITY_UNIT, 6) for w in sf.heaviest],
+        }
     if sf.proof is not None:
         proof = sf.proof
         out["service_proof"] = {
