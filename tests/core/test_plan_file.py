@@ -37,6 +37,45 @@ def test_plan_document_round_trip(tmp_path):
     assert back.build().fingerprint == doc.build().fingerprint
 
 
+def test_the_longest_working_day_is_kept_with_the_plan(tmp_path):
+    doc = small_document()
+    doc.settings = Settings(turnaround=600, max_day=11 * 3600)
+    path = tmp_path / "day.shipgui"
+    doc.save(path)
+    data = json.loads(path.read_text(encoding="utf-8"))
+    assert data["settings"]["max_day_seconds"] == 11 * 3600
+    assert DayDocument.open(path).settings.max_day == 11 * 3600
+    # No limit is written as null and read back as none.
+    doc.settings = Settings(turnaround=600)
+    doc.save(path)
+    assert json.loads(path.read_text(encoding="utf-8"))["settings"]["max_day_seconds"] is None
+    assert DayDocument.open(path).settings.max_day is None
+
+
+def test_a_plan_file_from_before_the_limit_reads_as_no_limit(tmp_path):
+    doc = small_document()
+    path = tmp_path / "old.shipgui"
+    doc.save(path)
+    data = json.loads(path.read_text(encoding="utf-8"))
+    del data["settings"]["max_day_seconds"]  # as files were written before the setting
+    path.write_text(json.dumps(data), encoding="utf-8")
+    assert DayDocument.open(path).settings.max_day is None
+
+
+@pytest.mark.parametrize("value", [0, -60, 24 * 3600 + 1, 39600.5, "11:00", True, [1]])
+def test_a_bad_longest_working_day_names_the_field(tmp_path, value):
+    path = tmp_path / "bad.shipgui"
+    small_document().save(path)
+    data = json.loads(path.read_text(encoding="utf-8"))
+    data["settings"]["max_day_seconds"] = value
+    path.write_text(json.dumps(data), encoding="utf-8")
+    with pytest.raises(InputError) as info:
+        DayDocument.open(path)
+    (problem,) = info.value.problems
+    assert problem.column == "max_day_seconds" and problem.file == str(path)
+    assert "longest working day" in problem.message
+
+
 def test_save_replaces_the_old_file_whole(tmp_path):
     path = tmp_path / "day.shipgui"
     path.write_text("old content")

@@ -15,7 +15,7 @@ import stat
 from datetime import date
 from pathlib import Path
 
-from ..clock import format_clock, format_clock_or_none, parse_clock
+from ..clock import MAX_WORKING_DAY, format_clock, format_clock_or_none, parse_clock
 from ..drivers import Driver, drivers_from_numbers
 from ..errors import InputError, InputErrors, Problem
 from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
@@ -52,7 +52,8 @@ def inputs_to_json(inputs: DayInputs) -> dict:
                      "day_end": format_clock_or_none(s.day_end),
                      "speed_kmh": s.speed_kmh, "circuity": s.circuity,
                      "vehicles": s.vehicles,
-                     "class_vehicles": {c: k for c, k in s.class_vehicles}},
+                     "class_vehicles": {c: k for c, k in s.class_vehicles},
+                     "max_day_seconds": s.max_day},
         "drivers": [{"name": d.name, "jobs": sorted(d.jobs)} if d.jobs or d.vehicle is None
                     else {"name": d.name, "vehicle": d.vehicle} for d in inputs.drivers],
         "sources": dict(inputs.sources),
@@ -210,12 +211,13 @@ def _read_settings(reader: _Reader, raw: dict) -> Settings:
            for k in ("day_start", "day_end")}
     speed = reader.number(raw.get("speed_kmh"), None, "speed_kmh", low=0.1, high=1000)
     circuity = reader.number(raw.get("circuity"), None, "circuity", low=1, high=100)
+    max_day = _read_max_day(reader, raw.get("max_day_seconds"))
     defaults = Settings()
     depot = raw.get("depot") or None
     return Settings(turnaround=int(turnaround or 0),
                     depot=str(depot) if depot else None, **day,
                     speed_kmh=float(speed or defaults.speed_kmh),
-                    circuity=float(circuity or defaults.circuity),
+                    circuity=float(circuity or defaults.circuity), max_day=max_day,
                     **_vehicle_limits(reader, raw))
 
 
@@ -237,6 +239,20 @@ def _vehicle_limits(reader: _Reader, raw: dict) -> dict:
     pairs = tuple((str(c), k) for c, v in sorted(per_class.items())
                   if (k := count(v, "class_vehicles")) is not None)
     return {"vehicles": total, "class_vehicles": pairs}
+
+
+def _read_max_day(reader: _Reader, value) -> int | None:
+    """The longest working day: absent or null is no limit (files saved before the
+    limit existed read as none); otherwise whole seconds, more than 0, at most 24 h."""
+    if value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, int) \
+            or not 0 < value <= MAX_WORKING_DAY:
+        reader.add("'max_day_seconds' (the longest working day) should be a whole number of "
+                   f"seconds from 1 to {MAX_WORKING_DAY} (24 h), or null for no limit",
+                   None, "max_day_seconds")
+        return None
+    return value
 
 
 def inputs_from_json(data, path: str) -> DayInputs:
