@@ -46,6 +46,7 @@ from shipgui.core.model import (
     priority_units,
 )
 from shipgui.core.planner import DEFAULT_TIME_LIMIT
+from shipgui.core.workday.explain import limit_cost_text, search_text
 
 
 class UsageError(Exception):
@@ -424,28 +425,21 @@ def _workday_lines(plan: Plan) -> list[str]:
     """The answer under a working-day limit: what is planned and what is proven."""
     info = plan.workday
     limit = format_duration(info.limit)
-    lines = [f"Longest working day: {limit}, depot to depot (your setting; drivers' hours "
+    span = "depot to depot" if plan.day.settings.depot else "first start to last end"
+    lines = [f"Longest working day: {limit}, {span} (your setting; drivers' hours "
              "and rest rules are local law)"]
     if plan.proven_minimum:
         lines.append(f"Vehicles needed: {plan.vehicles} (proven minimum with working days of "
                      f"at most {limit}; independently verified)")
     else:
-        why = {"time limit": f"the search stopped at the time limit ({info.seconds:.0f} s)",
-               "stopped": "the search was stopped",
-               "too large": "a day this large gets a fast plan and bound only, without the "
-                            "full search",
-               "proven": "the search went through every possibility"}.get(info.status,
-                                                                         info.status)
+        why = search_text(info)
         lines.append(f"Vehicles: {plan.vehicles} planned, at least {plan.lower_bound} needed "
                      f"({why}; plan independently verified)")
         if info.minimum_by_search:
             lines.append(f"  {plan.vehicles} is the minimum: the search found no plan with "
                          "fewer, though the printed proof only reaches "
                          f"{plan.lower_bound}")
-    extra = plan.vehicles - info.unlimited_vehicles
-    lines.append(f"Without the limit: {info.unlimited_vehicles} vehicles; the limit costs "
-                 f"{extra} more" if extra else
-                 f"Without the limit: {info.unlimited_vehicles} vehicles; the limit costs none")
+    lines.append(limit_cost_text(plan))
     return lines
 
 
