@@ -237,6 +237,8 @@ class MainWindow(QMainWindow):
         self.solver.busy_changed.connect(self._on_busy)
         self.solver.stage_changed.connect(lambda text: self.answer.set_busy(True, text))
         self.solver.plan_ready.connect(self._on_plan)
+        self.solver.search_progress.connect(
+            lambda vehicles, bound, _seconds: self.answer.show_search(vehicles, bound))
         self.solver.problems_found.connect(self._on_problems)
         self.solver.solve_failed.connect(self._on_failure)
         self.solver.solve_cancelled.connect(self._on_cancelled)

@@ -29,12 +29,24 @@ from shipgui.core import Plan
 from shipgui.core.clock import format_duration, shown_minutes
 from shipgui.core.fleet.deadhead import tradeoff_rows
 from shipgui.core.fleet.schedule import class_counts
+from shipgui.core.workday.explain import (
+    a_working_day,
+    format_limit,
+    limit_cost_text,
+    search_text,
+)
 
 from ..wording import count
 
-__all__ = ["AnswerBar", "saving_text", "tradeoff_cells", "tradeoff_html"]
+__all__ = ["AnswerBar", "saving_text", "tradeoff_cells", "tradeoff_html", "fleet_caption",
+           "search_caption", "fleet_tooltip", "deadhead_caption"]
 
 LINK_COLOUR = "#2f5f8f"
+VERIFIED_TIP = ("An independent check confirmed that every job is covered once, each route "
+                "is drivable, and no smaller fleet exists.")
+VERIFIED_WORKDAY_TIP = ("An independent check confirmed that every job is covered once, each "
+                        "route is drivable within the working-day limit, and the proof of the "
+                        "least number of vehicles needed holds.")
 
 
 def saving_text(before: int, after: int) -> str:
@@ -95,6 +107,63 @@ def _table_html(plan: Plan, rows: list[tuple[int, str, str, str]]) -> str:
             + "".join(f"<p>{note}</p>" for note in notes))
 
 
+def fleet_caption(plan: Plan) -> str:
+    """Beside the fleet figure: what it is and what is proven about it.
+
+    'vehicles needed'; with a working-day limit 'vehicles — proven minimum for an
+    11 h working day', or '34 planned, at least 32 — search stopped'."""
+    info = plan.workday
+    noun = "vehicle" if plan.vehicles == 1 else "vehicles"
+    if info is None:
+        return f"{noun} needed"
+    if plan.proven_minimum:
+        return f"{noun} — proven minimum for {a_working_day(info.limit)}"
+    if info.minimum_by_search:
+        return f"{noun} — the minimum for {a_working_day(info.limit)} (by search)"
+    ended = {"stopped": "search stopped", "time limit": "time limit reached"}.get(
+        info.status, "search ended")
+    return f"planned, at least {plan.lower_bound} — {ended}"
+
+
+def search_caption(vehicles: int, bound: int) -> str:
+    """Beside the fleet figure while a working-day search runs."""
+    if bound >= vehicles:
+        return ("vehicle" if vehicles == 1 else "vehicles") + " — proven minimum; finishing…"
+    return f"planned, at least {bound} — searching…"
+
+
+def fleet_tooltip(plan: Plan) -> str:
+    """The fleet figure's tooltip: what 'at least' means, in full sentences."""
+    info = plan.workday
+    if info is None:
+        return ""
+    limit = format_limit(info.limit)
+    text = (f"Every vehicle's working day (leaving the depot to being back) is at most "
+            f"{limit}. ")
+    if plan.proven_minimum:
+        text += (f"No plan within that limit has fewer than {plan.lower_bound} vehicles: "
+                 "Show proof says why.")
+    else:
+        text += (f"{plan.vehicles} are planned; no plan within that limit can have fewer "
+                 f"than {plan.lower_bound} (proven: Show proof says why), so the minimum is "
+                 f"{plan.lower_bound} to {plan.vehicles}; {search_text(info)}.")
+        if info.minimum_by_search:
+            text += (f" The search found no plan with fewer than {plan.vehicles}, so "
+                     f"{plan.vehicles} is the minimum, though the written proof reaches "
+                     f"{plan.lower_bound}.")
+    return text + " " + limit_cost_text(plan) + "."
+
+
+def deadhead_caption(plan: Plan) -> str | None:
+    """The empty-driving caption under a working-day limit (None without one)."""
+    if plan.workday is None:
+        return None
+    return {"proven least": "empty driving, least possible with "
+                            f"{count(plan.vehicles, 'vehicle')} within the working day",
+            "improved": "empty driving (improved; not proven least)"}.get(
+        plan.workday.deadhead_status, "empty driving (not optimised)")
+
+
 def _short(text: str, limit: int = 24) -> str:
     return text if len(text) <= limit else text[:limit - 1] + "…"
 
@@ -131,6 +200,11 @@ class AnswerBar(QFrame):
         self.by_class.setTextFormat(Qt.TextFormat.PlainText)
         self.by_class.setVisible(False)
         self.vehicles.notes.addWidget(self.by_class)
+        # What the working-day limit costs; shown only for a plan under a limit.
+        self.limit_cost = QLabel()
+        self.limit_cost.setObjectName("limitCost")
+        self.limit_cost.setVisible(False)
+        self.vehicles.notes.addWidget(self.limit_cost)
         self.deadhead = _Figure("empty driving")
         # What more vehicles would save; shown only for a plan with a trade-off.
         self.saving = QLabel()
@@ -147,8 +221,7 @@ class AnswerBar(QFrame):
         self.tradeoff_popup: QMenu | None = None  # made anew each time, sized to the text
         self.verified = QLabel("✓ verified")
         self.verified.setObjectName("verifiedBadge")
-        self.verified.setToolTip("An independent check confirmed that every job is covered "
-                                 "once, each route is drivable, and no smaller fleet exists.")
+        self.verified.setToolTip(VERIFIED_TIP)
         self.verified.setVisible(False)
         self.status = QLabel("")
         self.status.setObjectName("solveStatus")
@@ -180,7 +253,7 @@ class AnswerBar(QFrame):
         self.setStyleSheet(
             "#answerBar { background: #f1f4f8; border-bottom: 1px solid #d6dce4; }"
             " #figureValue { font-size: 20px; font-weight: 600; color: #22303f; }"
-            " #figureCaption, #vehiclesByClass { color: #56657a; }"
+            " #figureCaption, #vehiclesByClass, #limitCost { color: #56657a; }"
             " #verifiedBadge { color: #ffffff; background: #3f8a5f; border-radius: 4px;"
             " padding: 2px 8px; font-weight: 600; }"
             " #solveStatus { color: #56657a; }")
@@ -195,16 +268,20 @@ class AnswerBar(QFrame):
                 f" not served ({sf.needed_for_all} needed for all)")
             self.vehicles.caption.setStyleSheet("color: #9a2f2f; font-weight: 600;")
         else:
-            self.vehicles.caption.setText("vehicle needed" if plan.vehicles == 1
-                                          else "vehicles needed")
+            self.vehicles.caption.setText(fleet_caption(plan))
             self.vehicles.caption.setStyleSheet("")
+        self.vehicles.setToolTip(fleet_tooltip(plan))
+        self._show_limit_cost(plan)
         self.deadhead.value.setText(format_duration(plan.deadhead_seconds))
         self._show_tradeoff(plan)
         self.verified.setVisible(bool(plan.verified))
+        self.verified.setToolTip(VERIFIED_TIP if plan.workday is None else VERIFIED_WORKDAY_TIP)
         self.set_busy(False)
         note = "" if plan.verified else "  The independent check FAILED."
+        took = f"solved in {seconds * 1000:.0f} ms" if seconds < 10 \
+            else f"solved in {seconds:.0f} s"
         # No-break spaces: a narrow bar wraps between the parts, not inside them.
-        parts = ("Up to date", count(plan.day.n, "job"), f"solved in {seconds * 1000:.0f} ms")
+        parts = ("Up to date", count(plan.day.n, "job"), took)
         self.status.setText(" · ".join(p.replace(" ", "\u00a0") for p in parts) + note)
 
     def _show_classes(self, plan: Plan | None) -> None:
@@ -215,6 +292,25 @@ class AnswerBar(QFrame):
                                          for name, n in counts) if shown else "")
         self.by_class.setToolTip("Vehicles needed per vehicle class" if shown else "")
 
+    def _show_limit_cost(self, plan: Plan | None) -> None:
+        info = plan.workday if plan is not None else None
+        self.limit_cost.setVisible(info is not None)
+        self.limit_cost.setText(limit_cost_text(plan) if info else "")
+
+    def show_search(self, vehicles: int, bound: int) -> None:
+        """An improvement of the working-day search in progress: the best plan's fleet
+        and the proven bound so far (the rest of the answer waits for the plan)."""
+        self.vehicles.value.setText(str(vehicles))
+        self.vehicles.caption.setText(search_caption(vehicles, bound))
+        self.vehicles.setToolTip(f"The search has found a plan with {vehicles} vehicles and "
+                                 f"proven that at least {bound} are needed. Cancel keeps the "
+                                 "best plan found.")
+        self.limit_cost.setVisible(False)
+        self._show_classes(None)
+        self.deadhead.value.setText("–")
+        self._show_tradeoff(None)
+        self.deadhead.caption.setText("empty driving, once the search ends")
+
     def _show_tradeoff(self, plan: Plan | None) -> None:
         """The least-for-this-fleet note, the one-more-vehicle line and the list;
         the plain caption when there is no trade-off."""
@@ -224,7 +320,8 @@ class AnswerBar(QFrame):
         self.tradeoff_wide = any(row[3] for row in rows)
         self.deadhead.setToolTip(table)
         if not table:
-            self.deadhead.caption.setText("empty driving")
+            caption = deadhead_caption(plan) if plan is not None else None
+            self.deadhead.caption.setText(caption or "empty driving")
             self.saving.setVisible(False)
             return
         (vehicles, least), *more = plan.tradeoff
@@ -271,7 +368,9 @@ class AnswerBar(QFrame):
         self.vehicles.caption.setText("vehicles needed")
         self.vehicles.caption.setStyleSheet("")
         self.deadhead.value.setText("–")
+        self.vehicles.setToolTip("")
         self._show_classes(None)
+        self._show_limit_cost(None)
         self._show_tradeoff(None)
         self.verified.setVisible(False)
         self.set_busy(False)

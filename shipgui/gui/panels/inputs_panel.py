@@ -20,6 +20,7 @@ from PySide6.QtWidgets import (
 )
 
 from shipgui.core import Settings, format_clock, parse_clock
+from shipgui.core.clock import format_minutes, parse_length
 from shipgui.core.document import DayDocument
 
 from .. import wording
@@ -27,6 +28,18 @@ from .. import wording
 __all__ = ["InputsPanel"]
 
 NO_DEPOT = "(no depot)"
+MAX_DAY_CAUTION = ("Your setting, not a legal default: drivers' hours, breaks and rest rules "
+                   "are set by local law. Empty: no limit.")
+
+
+def _length_text(seconds: int | None) -> str:
+    """A working-day limit as typed: '11:00' (H:MM), '' for none."""
+    if seconds is None:
+        return ""
+    minutes = seconds / 60
+    if minutes.is_integer():
+        return f"{int(minutes) // 60}:{int(minutes) % 60:02d}"
+    return format_minutes(seconds)  # a limit of 612.5 min keeps its half minute
 
 
 class _FileRow(QWidget):
@@ -146,6 +159,18 @@ class InputsPanel(QWidget):
             edit.setPlaceholderText("HH:MM, or empty")
             # Wide enough for the hint in any font (frame and margins: 24 px).
             edit.setFixedWidth(edit.fontMetrics().horizontalAdvance("HH:MM, or empty") + 24)
+        self.max_day = QLineEdit()
+        self.max_day.setObjectName("maxDay")
+        self.max_day.setPlaceholderText("H:MM, or empty")
+        self.max_day.setFixedWidth(self.day_start.minimumWidth())
+        self.max_day.setToolTip("The longest working day of one vehicle and its driver, from "
+                                "leaving the depot to being back (first job's start to last "
+                                "job's end without a depot). Empty: no limit.")
+        # Beside the field on purpose: the limit is the dispatcher's input, never a default.
+        self.max_day_caution = QLabel(MAX_DAY_CAUTION)
+        self.max_day_caution.setObjectName("maxDayCaution")
+        self.max_day_caution.setWordWrap(True)
+        self.max_day_caution.setStyleSheet("color: #6a5420;")
         self.speed = QDoubleSpinBox()
         self.speed.setRange(5, 150)
         self.speed.setDecimals(0)
@@ -173,6 +198,8 @@ class InputsPanel(QWidget):
         form.addRow("Depot", self.depot)
         form.addRow("Day starts", self.day_start)
         form.addRow("Day ends", self.day_end)
+        form.addRow("Longest working day", self.max_day)
+        form.addRow("", self.max_day_caution)
         form.addRow("Average speed", self.speed)
         form.addRow("Road factor", self.circuity)
         form.addRow("Vehicles available", self.vehicles)
@@ -185,6 +212,7 @@ class InputsPanel(QWidget):
         self.depot.activated.connect(self._depot_changed)
         self.day_start.editingFinished.connect(lambda: self._clock_changed("day_start"))
         self.day_end.editingFinished.connect(lambda: self._clock_changed("day_end"))
+        self.max_day.editingFinished.connect(self._max_day_changed)
         self.speed.valueChanged.connect(self._speed_changed)
         self.circuity.valueChanged.connect(self._circuity_changed)
         self.vehicles.changed.connect(self._vehicles_changed)
@@ -210,6 +238,7 @@ class InputsPanel(QWidget):
             self.depot.setCurrentText(s.depot or NO_DEPOT)
             self.day_start.setText(format_clock(s.day_start) if s.day_start is not None else "")
             self.day_end.setText(format_clock(s.day_end) if s.day_end is not None else "")
+            self.max_day.setText(_length_text(s.max_day))
             self.speed.setValue(s.speed_kmh)
             self.circuity.setValue(s.circuity)
             self.vehicles.show_limits(s, sorted({j.vehicle_class for j in document.jobs}))
@@ -271,3 +300,19 @@ class InputsPanel(QWidget):
             self.settings_refused.emit(f"The {label} was not changed: {exc}")
             return
         self._emit(f"Set {label} to {format_clock(value)}", **{name: value})
+
+    def _max_day_changed(self) -> None:
+        if self._loading:
+            return
+        text = self.max_day.text().strip()
+        if not text:
+            self._emit("Plan without a working-day limit", max_day=None)
+            return
+        try:
+            value = parse_length(text)
+        except ValueError as exc:
+            self.max_day.setText(_length_text(self._settings.max_day))
+            self.settings_refused.emit(f"The longest working day was not changed: {exc}")
+            return
+        self.max_day.setText(_length_text(value))
+        self._emit(f"Set longest working day to {_length_text(value)}", max_day=value)

@@ -17,6 +17,7 @@ from PySide6.QtWidgets import (
 from shipgui.core import Plan
 from shipgui.core.clock import format_day_clock, format_duration
 from shipgui.core.fleet.schedule import vehicle_days
+from shipgui.core.workday.explain import format_limit, shown_day_minutes
 
 __all__ = ["TimelineView", "JobBar", "COLOURS"]
 
@@ -43,7 +44,11 @@ COLOURS = {
     "day": QColor("#7d8b99"),
     "moved": QColor("#b5652a"),  # a job a suggestion would move
     "ghost": QColor(181, 101, 42, 60),  # where it would go
+    "workday": QColor("#6f9a7a"),  # a vehicle's working day, depot to depot
+    "workday_room": QColor("#dfe9e1"),  # the rest of what the limit allows
+    "limit": QColor("#b5533c"),  # where the limit would end the working day
 }
+WORKDAY_HEIGHT = 3  # the working-day band under the bars
 
 
 class JobBar(QGraphicsRectItem):
@@ -259,8 +264,11 @@ class TimelineView(QGraphicsView):
         self._draw_rows(rows, width)
         self._draw_hours(t1, height)
         self._draw_day_limits(height)
+        limit = self._plan.day.settings.max_day
         for k, vehicle in enumerate(self._days):
             self._draw_route(k, vehicle)
+            if limit is not None:
+                self._draw_working_day(k, vehicle, limit, t1)
         self._draw_labels(rows, height)
         self._colour_bars()
         self._pin()
@@ -347,6 +355,29 @@ class TimelineView(QGraphicsView):
                          f"{way}); the customer must agree")
         ghost.setZValue(3)
 
+    def _draw_working_day(self, k: int, vehicle, limit: int, t1: int) -> None:
+        """A thin band under the row from leaving to being back, the room the limit
+        leaves after it, and a mark where the limit would end the day."""
+        scene = self.scene()
+        no_pen = QPen(Qt.PenStyle.NoPen)
+        y = AXIS_HEIGHT + (k + 1) * ROW_HEIGHT - WORKDAY_HEIGHT - 1
+        start, end = vehicle.day_start, vehicle.day_end
+        stop = min(start + limit, t1)  # beyond the drawn hours the mark is left out
+        tip = _working_day_tooltip(vehicle, limit)
+        room = scene.addRect(QRectF(self._x(end), y, max(0.0, self._x(stop) - self._x(end)),
+                                    WORKDAY_HEIGHT), no_pen, QBrush(COLOURS["workday_room"]))
+        used = scene.addRect(QRectF(self._x(start), y, self._x(end) - self._x(start),
+                                    WORKDAY_HEIGHT), no_pen, QBrush(COLOURS["workday"]))
+        for item in (room, used):
+            item.setToolTip(tip)
+            item.setZValue(1)
+        if start + limit <= t1:
+            x = self._x(start + limit)
+            mark = scene.addRect(QRectF(x - 1, y - 7, 2, WORKDAY_HEIGHT + 7), no_pen,
+                                 QBrush(COLOURS["limit"]))
+            mark.setToolTip(tip)
+            mark.setZValue(1)
+
     def _label(self, k: int) -> str:
         name = self._names.get(k + 1, "")
         return f"Vehicle {k + 1}" + (f" · {name}" if name else "")
@@ -380,7 +411,11 @@ class TimelineView(QGraphicsView):
     def _colour_bars(self) -> None:
         if self._plan is None:
             return
-        certificate = set(self._plan.certificate_ids()) if self._highlight_certificate else set()
+        certificate = set()
+        if self._highlight_certificate:  # the proof's jobs: pairwise, and any weighted
+            jobs = self._plan.day.jobs
+            certificate = set(self._plan.certificate_ids()) | {
+                jobs[k].id for k, w in self._plan.certificate_weights if w > 0}
         for job_id, bar in self._bars.items():
             if job_id in self._moves:
                 colour = COLOURS["moved"]
@@ -413,6 +448,17 @@ def _drive_tooltip(day, drive) -> str:
     origin = "the depot" if drive.kind == "out" else day.site_label(drive.origin)
     return (f"Empty drive {format_duration(drive.seconds)} from {origin} "
             f"to {day.site_label(drive.destination)}")
+
+
+def _working_day_tooltip(vehicle, limit: int) -> str:
+    """'Working day 10 h 32 min (05:40–16:12), limit 11 h: 28 min to spare'."""
+    length = shown_day_minutes(vehicle.day_start, vehicle.day_end)
+    spare = limit // 60 - length
+    room = f"{format_duration(spare * 60)} to spare" if spare > 0 else "no time to spare"
+    return (f"Vehicle {vehicle.vehicle}: working day {format_duration(length * 60)} "
+            f"({format_day_clock(vehicle.day_start - vehicle.day_start % 60)}–"
+            f"{format_day_clock(-(-vehicle.day_end // 60) * 60)}), limit "
+            f"{format_limit(limit)}: {room}")
 
 
 def _bar_label(job_id: str, metrics: QFontMetricsF, room: float) -> str:

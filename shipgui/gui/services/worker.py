@@ -32,7 +32,9 @@ STAGE_NAMES = {
     "serving the most": "Choosing the jobs the vehicles available can serve",
     "routes": "Writing the routes",
     "verification": "Checking the plan independently",
+    "working-day search": "Searching for fewer vehicles within the working day",
 }
+SEARCH_STAGE = "working-day search"
 
 
 class WorkerSignals(QObject):
@@ -42,6 +44,9 @@ class WorkerSignals(QObject):
     progress = Signal(int, str)
     finished = Signal(int, object, float)  # generation, Plan, seconds taken
     errored = Signal(int, str, object)  # generation, kind, detail
+    # generation, vehicles planned, vehicles proven needed, seconds: each improvement
+    # of a working-day search
+    found = Signal(int, int, int, float)
 
 
 class SolveWorker(QRunnable):
@@ -71,7 +76,9 @@ class SolveWorker(QRunnable):
             if self._cancel_flag.is_set():
                 raise Cancelled()
             plan = solve_day(day, progress=partial(signals.progress.emit, g),
-                             cancelled=self._cancel_flag.is_set)
+                             cancelled=self._cancel_flag.is_set,
+                             on_progress=lambda p: signals.found.emit(
+                                 g, p.vehicles, p.lower_bound, p.seconds))
         except Cancelled:
             signals.errored.emit(g, "cancelled", None)
         except InputError as exc:
@@ -98,6 +105,8 @@ class SolveController(QObject):
     problems_found = Signal(object)  # list of Problem
     solve_failed = Signal(str, str)  # short text, details
     solve_cancelled = Signal()
+    # vehicles planned, vehicles proven needed, seconds: a working-day search improved
+    search_progress = Signal(int, int, float)
 
     def __init__(self, parent: QObject | None = None, *, delay_ms: int = 80,
                  pool: QThreadPool | None = None) -> None:
@@ -107,6 +116,7 @@ class SolveController(QObject):
         self._flag: threading.Event | None = None
         self._pending: Callable[[], Day] | None = None
         self._workers: dict[int, SolveWorker] = {}  # keep signal objects alive
+        self._searching = False  # the current worker is in a working-day search
         self._timer = QTimer(self)
         self._timer.setSingleShot(True)
         self._timer.setInterval(delay_ms)
@@ -128,10 +138,17 @@ class SolveController(QObject):
         self.busy_changed.emit(True)
 
     def cancel(self) -> None:
-        """Stop the solve in progress (the last shown plan stays, marked out of date)."""
+        """Stop the solve in progress (the last shown plan stays, marked out of date).
+
+        A working-day search stops and hands back its best plan: that outcome is
+        still the current one and arrives as ``plan_ready`` (status "stopped")."""
         was_busy = self.busy
         self._timer.stop()
         self._pending = None
+        if self._searching and self._flag is not None:
+            self._flag.set()
+            self.stage_changed.emit("Stopping the search; the best plan found is kept…")
+            return
         self._cancel_running()
         self._generation += 1  # whatever still arrives is stale
         if was_busy:
@@ -149,8 +166,10 @@ class SolveController(QObject):
             return
         self._generation += 1
         self._flag = threading.Event()
+        self._searching = False
         worker = SolveWorker(self._generation, build, self._flag)
         worker.signals.progress.connect(self._on_progress)
+        worker.signals.found.connect(self._on_found)
         worker.signals.finished.connect(self._on_finished)
         worker.signals.errored.connect(self._on_errored)
         self._workers[self._generation] = worker
@@ -165,12 +184,19 @@ class SolveController(QObject):
         if not self._is_current(generation):
             return False
         self._flag = None
+        self._searching = False
         self.busy_changed.emit(False)
         return True
 
     def _on_progress(self, generation: int, stage: str) -> None:
-        if self._is_current(generation):
+        if self._is_current(generation) and not (self._flag and self._flag.is_set()):
+            # From the search on, a cancel keeps the best plan (also while it is verified).
+            self._searching = self._searching or stage == SEARCH_STAGE
             self.stage_changed.emit(STAGE_NAMES.get(stage, stage))
+
+    def _on_found(self, generation: int, vehicles: int, bound: int, seconds: float) -> None:
+        if self._is_current(generation):
+            self.search_progress.emit(vehicles, bound, seconds)
 
     def _on_finished(self, generation: int, plan: Plan, seconds: float) -> None:
         if self._done(generation):
