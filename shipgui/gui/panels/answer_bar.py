@@ -120,8 +120,8 @@ def fleet_caption(plan: Plan) -> str:
         return f"{noun} — proven minimum for {a_working_day(info.limit)}"
     if info.minimum_by_search:
         return f"{noun} — the minimum for {a_working_day(info.limit)} (by search)"
-    ended = {"stopped": "search stopped", "time limit": "time limit reached"}.get(
-        info.status, "search ended")
+    ended = {"stopped": "search stopped", "time limit": "time limit reached",
+             "too large": "fast plan only (a day this large)"}.get(info.status, "search ended")
     return f"planned, at least {plan.lower_bound} — {ended}"
 
 
