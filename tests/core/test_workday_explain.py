@@ -23,6 +23,7 @@ from shipgui.core.workday.explain import (
     fit_reason,
     format_limit,
     limit_cost_text,
+    pair_kind_counts,
     proof_statement,
     weight_text,
     weights_total_text,
@@ -208,3 +209,15 @@ def test_weights_statement_uses_the_printed_sum():
     assert f"so at least {plan.lower_bound} vehicles are needed" in text
     assert plan.lower_bound == int(np.ceil(total - 1e-6))
     assert isinstance(plan.workday, WorkdayInfo)
+
+
+@pytest.mark.parametrize("seed", range(4))
+def test_pair_kind_counts_agree_with_each_pair_said(seed):
+    day = random_day(30, 5, seed=seed, classes=2) if seed % 2 else depot_day(30, 6, seed=seed)
+    jobs = list(range(1, day.n, 2))
+    limit = 7 * HOUR
+    expected = dict.fromkeys(("class", "overlap", "short", "too long", "fits"), 0)
+    for i, j in itertools.combinations(jobs, 2):
+        expected[fit_reason(day, i, j, limit).kind] += 1
+    assert pair_kind_counts(day, jobs, limit) == expected
+    assert sum(expected.values()) == len(jobs) * (len(jobs) - 1) // 2

@@ -29,7 +29,7 @@ from ..model import Day, Plan, WorkdayInfo
 from .problem import leave_and_back
 
 __all__ = ["FitReason", "fit_reason", "fit_label", "explain_fit", "closest_fits",
-           "format_limit", "a_working_day", "shown_day_minutes", "weight_text",
+           "pair_kind_counts", "format_limit", "a_working_day", "shown_day_minutes", "weight_text",
            "weights_total_text", "search_text", "limit_cost_text", "proof_statement",
            "weights_reading", "SIMPLE_DENOMINATORS"]
 
@@ -159,6 +159,36 @@ def closest_fits(day: Day, jobs, limit: int) -> np.ndarray:
         usable = miss[np.arange(len(rows)), choice] < never
         best[rows[usable]] = choice[usable]
     return best
+
+
+def pair_kind_counts(day: Day, jobs, limit: int) -> dict[str, int]:
+    """How many pairs of ``jobs`` (day indices) have each :attr:`FitReason.kind`, as
+    :func:`fit_reason` would say for every pair; vectorised in row blocks."""
+    idx = np.asarray(jobs, dtype=np.int64)
+    k = len(idx)
+    counts = dict.fromkeys(("class", "overlap", "short", "too long", "fits"), 0)
+    if k < 2:
+        return counts
+    leave, back = leave_and_back(day)
+    start, end = day.start[idx], day.end[idx]
+    ready = end + day.settings.turnaround
+    rank = np.empty(k, np.int64)
+    rank[np.lexsort((idx, start))] = np.arange(k)  # the earlier-starting job comes first
+    step = max(1, _BLOCK_CELLS // k)
+    for a in range(0, k, step):
+        rows = np.arange(a, min(k, a + step))
+        pair = rank[rows, None] < rank[None, :]  # each pair once, in its only order
+        other = day.vclass[idx[rows]][:, None] != day.vclass[idx][None, :]
+        overlap = ~other & (start[None, :] < end[rows, None])
+        late = ready[rows, None] + day.travel[day.destination[idx[rows]][:, None],
+                                              day.origin[idx][None, :]] > start[None, :]
+        short = ~other & ~overlap & late
+        follows = ~other & ~overlap & ~late
+        long_day = follows & (back[idx][None, :] - leave[idx[rows]][:, None] > limit)
+        for kind, mask in (("class", other), ("overlap", overlap), ("short", short),
+                           ("too long", long_day), ("fits", follows & ~long_day)):
+            counts[kind] += int(np.count_nonzero(mask & pair))
+    return counts
 
 
 def weight_text(weight: float) -> str:
