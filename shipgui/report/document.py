@@ -21,6 +21,7 @@ from .shortfall import build_suggestions, build_unserved
 from .styles import register_fonts
 from .summary import build_summary, plan_title
 from .text import plan_date_text
+from .workday_proof import build_workday_proof
 
 __all__ = ["build_pdf_bytes", "write_plan_pdf", "PrintLayoutError"]
 
@@ -71,7 +72,7 @@ def _story(plan: Plan, driver_names: Mapping[int, str], progress: Progress | Non
         if progress is not None:
             progress(_STORY_SHARE * number // max(plan.vehicles, 1), _PROGRESS_STEPS)
     story += _new_section("certificate")
-    story += build_certificate(plan)
+    story += build_certificate(plan) if plan.workday is None else build_workday_proof(plan)
     saving = build_suggestions(plan, suggestions)
     if saving:
         story += _new_section("certificate") + saving

@@ -30,6 +30,7 @@ from shipgui.core.clock import format_day_clock, format_duration
 from shipgui.core.fleet.schedule import VehicleDay, Wait, route_km, vehicle_day
 from shipgui.core.model import Day, Job, Plan
 from shipgui.core.travel import site_distance_km
+from shipgui.core.workday.explain import format_limit
 
 from .pages import SectionStart
 from .styles import FAINT_GREY, FRAME_WIDTH, INK, LIGHT_GREY, MID_GREY, grid_table_style, styles
@@ -130,8 +131,10 @@ def _times_block(plan: Plan, v: VehicleDay) -> Table:
                   format_day_clock(last.end))]
         working = v.working_day
     empty = sum(_shown_minutes(s) for s in (*v.before, v.pull_in))
+    limit = day.settings.max_day
     figures = [f"{len(v.jobs)} job{'s' if len(v.jobs) != 1 else ''}",
-               f"working day {format_duration(working)}",
+               f"working day {format_duration(working)}"
+               + (f" (limit {format_limit(limit)})" if limit is not None else ""),
                f"empty driving {format_duration(empty * 60)}"]
     km = route_km(plan, v.vehicle)
     if km is not None:

@@ -11,6 +11,7 @@ from shipgui.core.clock import format_day_clock, format_duration, shown_minutes
 from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN, tradeoff_rows
 from shipgui.core.fleet.schedule import class_counts, vehicle_days
 from shipgui.core.model import Plan
+from shipgui.core.workday.explain import a_working_day, format_limit, limit_cost_text, search_text
 
 from .pages import SectionStart
 from .styles import FRAME_WIDTH, LIGHT_GREY, grid_table_style, heading, styles
@@ -64,8 +65,46 @@ def _intro(plan: Plan) -> str:
                 f"{len(sf.unserved)} are not served (listed on the next page, with the proof "
                 f"that no more fit). {sf.needed_for_all} vehicles would serve every job.")
     jobs = "the 1 job" if plan.day.n == 1 else f"all {plan.day.n} jobs"
-    return (f"{_vehicles_text(plan.vehicles)} {verb} {jobs}. No plan with fewer vehicles "
-            "exists: the proof is on the last pages.")
+    info = plan.workday
+    if info is None:
+        return (f"{_vehicles_text(plan.vehicles)} {verb} {jobs}. No plan with fewer vehicles "
+                "exists: the proof is on the last pages.")
+    text = (f"{_vehicles_text(plan.vehicles)} {verb} {jobs}, every working day within "
+            f"{format_limit(info.limit)}. ")
+    if plan.proven_minimum:
+        return text + ("No plan with fewer vehicles within that limit exists: the proof is "
+                       "on the last pages.")
+    text += (f"No plan within that limit has fewer than {plan.lower_bound} (the proof is on "
+             f"the last pages), so the minimum is {plan.lower_bound} to {plan.vehicles}")
+    if info.minimum_by_search:
+        return text + (f"; the search found none with fewer than {plan.vehicles}, so "
+                       f"{plan.vehicles} is the minimum.")
+    return text + f": {esc(search_text(info))}."
+
+
+def _workday_facts(plan: Plan) -> list[tuple[str, str]]:
+    """The rows a working-day limit adds: the limit, what is proven, what it costs."""
+    info = plan.workday
+    limit = format_limit(info.limit)
+    span = "leaving the depot to being back" if plan.day.settings.depot \
+        else "first job's start to last job's end"
+    if plan.proven_minimum:
+        fleet = f"<b>{plan.vehicles}</b>: proven minimum for {a_working_day(info.limit)}"
+    else:
+        fleet = (f"<b>{plan.vehicles}</b> planned; at least <b>{plan.lower_bound}</b> needed "
+                 f"(proven)")
+        if info.minimum_by_search:
+            fleet += f"; {plan.vehicles} is the minimum, found by search"
+    search = esc(search_text(info)).capitalize()
+    if info.status != "time limit":  # that one says its seconds already
+        search += f" ({info.seconds:.0f} s)"
+    return [
+        ("Longest working day", f"<b>{limit}</b>, {span}<br/><font size=8>your setting, not a "
+         "legal default: drivers' hours, breaks and rest rules are set by local law</font>"),
+        ("Vehicles", fleet),
+        ("Search", search),
+        ("Without the limit", esc(limit_cost_text(plan).removeprefix("Without the limit: "))),
+    ]
 
 
 def _facts(plan: Plan) -> list[tuple[str, str]]:
@@ -75,10 +114,9 @@ def _facts(plan: Plan) -> list[tuple[str, str]]:
     facts = [("Plan date", esc(plan_date_text(day)))]
     for kind, name in source_names(day):
         facts.append((f"{kind.capitalize()} file", esc(name, LIMITS["file"])))
-    facts += [
-        ("Input fingerprint", f"<b>{esc(day.fingerprint)}</b>"),
-        ("Vehicles needed", f"<b>{plan.vehicles}</b>"),
-    ]
+    facts.append(("Input fingerprint", f"<b>{esc(day.fingerprint)}</b>"))
+    facts += [("Vehicles needed", f"<b>{plan.vehicles}</b>")] if plan.workday is None \
+        else _workday_facts(plan)
     counts = class_counts(plan)
     if len(counts) > 1:
         facts.append(("Vehicles by class", " \u00b7 ".join(
@@ -97,8 +135,9 @@ def _facts(plan: Plan) -> list[tuple[str, str]]:
             hours = (f", open {format_day_clock(settings.day_start)}\u2013"
                      f"{format_day_clock(settings.day_end)}")
         facts.append(("Depot", esc(day.site_label(settings.depot), LIMITS["name"]) + hours))
+    within = " within the working-day limit" if plan.workday is not None else ""
     facts.append(("Independent check", "passed: every job is on exactly one route, every "
-                  "route can be driven, and the proof holds"))
+                  f"route can be driven{within}, and the proof holds"))
     return facts
 
 
@@ -108,7 +147,13 @@ def _vehicles_text(count: int) -> str:
 
 def _empty_driving_text(plan: Plan) -> str:
     text = format_duration(plan.deadhead_seconds)
-    if plan.least_deadhead and plan.vehicles:
+    if plan.workday is not None and plan.vehicles:
+        text += "<br/><font size=8>" + {
+            "proven least": f"the least possible with {_vehicles_text(plan.vehicles)} "
+                            "within the working day",
+            "improved": "improved; not proven the least possible"}.get(
+            plan.workday.deadhead_status, "not optimised") + "</font>"
+    elif plan.least_deadhead and plan.vehicles:
         text += (f"<br/><font size=8>the least possible with "
                  f"{_vehicles_text(plan.vehicles)}</font>")
     elif plan.vehicles:

@@ -284,7 +284,7 @@ def weights_reading(plan: Plan) -> str:
     total = weights_total_text(plan.certificate_weights)
     return (f"How to read the weights: add up the weights of the jobs one vehicle does. No "
             f"working day within the {limit} limit carries more than 1 (an independent check "
-            "went through every possible working day to confirm it). Every job is on some "
+            "finds the heaviest possible working day and confirms it). Every job is on some "
             f"vehicle, so the vehicles together carry the whole sum, {total}; as each carries "
             f"at most 1, at least \u2308{total.split(' = ')[-1]}\u2309 = {plan.lower_bound} "
             "vehicles are needed. A fraction such as 1/2 means that job can only share a "
