@@ -238,7 +238,8 @@ class MainWindow(QMainWindow):
         self.solver.stage_changed.connect(lambda text: self.answer.set_busy(True, text))
         self.solver.plan_ready.connect(self._on_plan)
         self.solver.search_progress.connect(
-            lambda vehicles, bound, _seconds: self.answer.show_search(vehicles, bound))
+            lambda vehicles, bound, _seconds: self.answer.show_search(
+                vehicles, bound, self.document.settings.max_day or 0))
         self.solver.problems_found.connect(self._on_problems)
         self.solver.solve_failed.connect(self._on_failure)
         self.solver.solve_cancelled.connect(self._on_cancelled)

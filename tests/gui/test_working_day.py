@@ -16,7 +16,12 @@ from shipgui.core.demo import load_demo
 from shipgui.core.document import DayDocument
 from shipgui.core.model import Day
 from shipgui.core.workday.explain import explain_fit, fit_label, fit_reason, weight_text
-from shipgui.gui.panels.answer_bar import fleet_caption, search_caption
+from shipgui.gui.panels.answer_bar import (
+    fleet_caption,
+    fleet_tooltip,
+    limit_cost_line,
+    search_caption,
+)
 from shipgui.gui.panels.certificate_panel import (
     CertificatePanel,
     PairColumn,
@@ -125,18 +130,19 @@ def test_the_answer_says_proven_minimum_and_what_the_limit_costs(qtbot, demo_win
     # The demo's calibration: 39 vehicles, proven, 28 without the limit.
     assert (plan.vehicles, plan.lower_bound, plan.workday.unlimited_vehicles) == (39, 39, 28)
     assert bar.vehicles.value.text() == "39"
-    assert bar.vehicles.caption.text() == "vehicles — proven minimum for an 11 h working day"
-    assert bar.limit_cost.text() == "Without the limit: 28 vehicles; the limit costs 11 more"
+    assert bar.vehicles.caption.text() == "vehicles — proven minimum\nfor an 11 h working day"
+    assert bar.limit_cost.text() == "28 without the limit (+11)"
+    assert "Without the limit: 28 vehicles; the limit costs 11 more." in bar.vehicles.toolTip()
     assert not bar.limit_cost.isHidden() and not bar.verified.isHidden()
     assert "within the working-day limit" in bar.verified.toolTip()
     status = plan.workday.deadhead_status
     assert bar.deadhead.caption.text() == {
-        "proven least": "empty driving, least possible with 39 vehicles within the working day",
-        "improved": "empty driving (improved; not proven least)"}.get(
-        status, "empty driving (not optimised)")
+        "proven least": "empty driving, least possible with 39 vehicles",
+        "improved": "empty driving, improved\n(not proven least)"}.get(
+        status, "empty driving\n(not optimised)")
     # Each improvement was shown as it came, ending at the plan shown.
     assert improvements and improvements[-1] == (39, 39)
-    assert captions == [search_caption(v, b) for v, b in improvements]
+    assert captions == [search_caption(v, b, 11 * HOUR) for v, b in improvements]
     assert all(b <= v for v, b in improvements)
     # Without the limit again: the plain answer, no limit line.
     with qtbot.waitSignal(w.plan_shown, timeout=WAIT_MS):
@@ -148,14 +154,18 @@ def test_not_proven_plans_say_both_figures(demo_11h):
     stopped = dataclasses.replace(demo_11h, bound=37,
                                   workday=dataclasses.replace(demo_11h.workday,
                                                               status="stopped"))
-    assert fleet_caption(stopped) == "planned, at least 37 — search stopped"
+    assert fleet_caption(stopped) == "planned, at least 37\nsearch stopped · 11 h day"
+    assert limit_cost_line(stopped) == "28 without the limit (+9 to +11)"
     timed = dataclasses.replace(stopped, workday=dataclasses.replace(
         stopped.workday, status="time limit"))
-    assert fleet_caption(timed) == "planned, at least 37 — time limit reached"
+    assert fleet_caption(timed) == "planned, at least 37\ntime limit reached · 11 h day"
     searched = dataclasses.replace(stopped, workday=dataclasses.replace(
         stopped.workday, status="proven", minimum_by_search=True))
-    assert fleet_caption(searched) == "vehicles — the minimum for an 11 h working day (by search)"
-    assert search_caption(34, 32) == "planned, at least 32 — searching…"
+    assert fleet_caption(searched) == "vehicles — the minimum\nfor an 11 h working day"
+    assert "so 39 is the minimum, though the written proof reaches 37" in \
+        fleet_tooltip(searched)
+    assert limit_cost_line(searched) == "28 without the limit (+11)"
+    assert search_caption(34, 32, 11 * HOUR) == "planned, at least 32\nsearching… · 11 h day"
 
 
 def test_cancel_stops_the_search_and_keeps_the_best_plan(qtbot, demo_window):
@@ -174,7 +184,7 @@ def test_cancel_stops_the_search_and_keeps_the_best_plan(qtbot, demo_window):
     assert plan.verified and plan.workday.limit == 10 * HOUR
     assert plan.workday.status in ("stopped", "proven")  # the search may just have ended
     if plan.workday.status == "stopped" and not plan.proven_minimum:
-        assert w.answer.vehicles.caption.text().endswith("— search stopped")
+        assert "search stopped" in w.answer.vehicles.caption.text()
     assert w.answer.status.text().replace("\xa0", " ").startswith("Up to date")
     assert not w.cancel_action.isEnabled() and w.files.current_plan() is plan
 
@@ -278,3 +288,17 @@ def test_the_proof_view_shows_weights_and_how_to_read_them(qtbot, weights_plan):
     panel.set_plan(solve_day(load_demo()))
     assert panel.weights_box.isHidden() and panel.pairs_heading.isHidden()
     assert isinstance(WeightsModel().rowCount(), int)
+
+
+def test_the_longer_answer_fits_a_narrow_window(qtbot, demo_window):
+    w, bar = demo_window, demo_window.answer
+    w.resize(900, 600)
+    w.show()
+    _set_limit(qtbot, w, "11:00")
+    for busy in (False, True):
+        bar.set_busy(busy, "Searching for fewer vehicles within the working day")
+        qtbot.wait(10)
+        assert w.width() == 900
+        assert bar.deadhead.geometry().right() < bar.status.geometry().left()
+        assert bar.vehicles.width() >= bar.vehicles.sizeHint().width()
+    bar.set_busy(False)

@@ -39,7 +39,7 @@ from shipgui.core.workday.explain import (
 from ..wording import count
 
 __all__ = ["AnswerBar", "saving_text", "tradeoff_cells", "tradeoff_html", "fleet_caption",
-           "search_caption", "fleet_tooltip", "deadhead_caption"]
+           "search_caption", "fleet_tooltip", "deadhead_caption", "limit_cost_line"]
 
 LINK_COLOUR = "#2f5f8f"
 VERIFIED_TIP = ("An independent check confirmed that every job is covered once, each route "
@@ -108,28 +108,42 @@ def _table_html(plan: Plan, rows: list[tuple[int, str, str, str]]) -> str:
 
 
 def fleet_caption(plan: Plan) -> str:
-    """Beside the fleet figure: what it is and what is proven about it.
+    """Beside the fleet figure: what it is and what is proven about it, on lines short
+    enough for a narrow window.
 
-    'vehicles needed'; with a working-day limit 'vehicles — proven minimum for an
-    11 h working day', or '34 planned, at least 32 — search stopped'."""
+    'vehicles needed'; with a working-day limit 'vehicles — proven minimum' over
+    'for an 11 h working day', or 'planned, at least 32' over 'search stopped ·
+    11 h day'."""
     info = plan.workday
     noun = "vehicle" if plan.vehicles == 1 else "vehicles"
     if info is None:
         return f"{noun} needed"
     if plan.proven_minimum:
-        return f"{noun} — proven minimum for {a_working_day(info.limit)}"
+        return f"{noun} — proven minimum\nfor {a_working_day(info.limit)}"
     if info.minimum_by_search:
-        return f"{noun} — the minimum for {a_working_day(info.limit)} (by search)"
+        return f"{noun} — the minimum\nfor {a_working_day(info.limit)}"
     ended = {"stopped": "search stopped", "time limit": "time limit reached",
-             "too large": "fast plan only (a day this large)"}.get(info.status, "search ended")
-    return f"planned, at least {plan.lower_bound} — {ended}"
+             "too large": "fast plan only"}.get(info.status, "search ended")
+    return f"planned, at least {plan.lower_bound}\n{ended} · {format_limit(info.limit)} day"
 
 
-def search_caption(vehicles: int, bound: int) -> str:
+def search_caption(vehicles: int, bound: int, limit: int) -> str:
     """Beside the fleet figure while a working-day search runs."""
     if bound >= vehicles:
-        return ("vehicle" if vehicles == 1 else "vehicles") + " — proven minimum; finishing…"
-    return f"planned, at least {bound} — searching…"
+        noun = "vehicle" if vehicles == 1 else "vehicles"
+        return f"{noun} — proven minimum\nfinishing… · {format_limit(limit)} day"
+    return f"planned, at least {bound}\nsearching… · {format_limit(limit)} day"
+
+
+def limit_cost_line(plan: Plan) -> str:
+    """Under the fleet caption: '28 without the limit (+11)', '(+4 to +6)' when the
+    minimum is not pinned down."""
+    info = plan.workday
+    most = plan.vehicles - info.unlimited_vehicles
+    least = most if plan.proven_minimum or info.minimum_by_search \
+        else plan.lower_bound - info.unlimited_vehicles
+    extra = f"+{most}" if least >= most else f"+{max(least, 0)} to +{most}"
+    return f"{info.unlimited_vehicles} without the limit ({extra})"
 
 
 def fleet_tooltip(plan: Plan) -> str:
@@ -138,8 +152,9 @@ def fleet_tooltip(plan: Plan) -> str:
     if info is None:
         return ""
     limit = format_limit(info.limit)
-    text = (f"Every vehicle's working day (leaving the depot to being back) is at most "
-            f"{limit}. ")
+    span = "leaving the depot to being back" if plan.day.settings.depot \
+        else "the first job's start to the last job's end"
+    text = f"Every vehicle's working day ({span}) is at most {limit}. "
     if plan.proven_minimum:
         text += (f"No plan within that limit has fewer than {plan.lower_bound} vehicles: "
                  "Show proof says why.")
@@ -159,9 +174,9 @@ def deadhead_caption(plan: Plan) -> str | None:
     if plan.workday is None:
         return None
     return {"proven least": "empty driving, least possible with "
-                            f"{count(plan.vehicles, 'vehicle')} within the working day",
-            "improved": "empty driving (improved; not proven least)"}.get(
-        plan.workday.deadhead_status, "empty driving (not optimised)")
+                            f"{count(plan.vehicles, 'vehicle')}",
+            "improved": "empty driving, improved\n(not proven least)"}.get(
+        plan.workday.deadhead_status, "empty driving\n(not optimised)")
 
 
 def _short(text: str, limit: int = 24) -> str:
@@ -295,13 +310,13 @@ class AnswerBar(QFrame):
     def _show_limit_cost(self, plan: Plan | None) -> None:
         info = plan.workday if plan is not None else None
         self.limit_cost.setVisible(info is not None)
-        self.limit_cost.setText(limit_cost_text(plan) if info else "")
+        self.limit_cost.setText(limit_cost_line(plan) if info else "")
 
-    def show_search(self, vehicles: int, bound: int) -> None:
+    def show_search(self, vehicles: int, bound: int, limit: int) -> None:
         """An improvement of the working-day search in progress: the best plan's fleet
         and the proven bound so far (the rest of the answer waits for the plan)."""
         self.vehicles.value.setText(str(vehicles))
-        self.vehicles.caption.setText(search_caption(vehicles, bound))
+        self.vehicles.caption.setText(search_caption(vehicles, bound, limit))
         self.vehicles.setToolTip(f"The search has found a plan with {vehicles} vehicles and "
                                  f"proven that at least {bound} are needed. Cancel keeps the "
                                  "best plan found.")
