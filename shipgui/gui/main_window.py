@@ -289,7 +289,7 @@ class MainWindow(QMainWindow):
         self.plan_is_current = False
         self.files.update_actions()
         if not self.document.jobs:
-            self.solver.cancel()
+            self.solver.cancel(keep_search=False)
             self._show_empty("No jobs in this day yet: use Add job.")
             return
         self.solver.request(snapshot(self.document))

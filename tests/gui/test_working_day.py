@@ -8,6 +8,7 @@ import dataclasses
 import re
 
 import pytest
+from PySide6.QtCore import QThreadPool
 from PySide6.QtTest import QAbstractItemModelTester
 from PySide6.QtWidgets import QGraphicsRectItem
 
@@ -302,3 +303,22 @@ def test_the_longer_answer_fits_a_narrow_window(qtbot, demo_window):
         assert bar.deadhead.geometry().right() < bar.status.geometry().left()
         assert bar.vehicles.width() >= bar.vehicles.sizeHint().width()
     bar.set_busy(False)
+
+
+def test_an_empty_day_during_the_search_shows_no_old_plan(qtbot, demo_window):
+    # The inputs change at once to a day without jobs (one change, no new solve):
+    # the stopped search's plan must not come back as the answer.
+    w = demo_window
+    shown = []
+    w.plan_shown.connect(shown.append)
+
+    def empty_day(_vehicles, _bound, _seconds):
+        if w.document.jobs:
+            w.load_document(DayDocument())
+
+    w.solver.search_progress.connect(empty_day)
+    _set_limit(qtbot, w, "10:00", wait=False)
+    qtbot.waitUntil(lambda: not w.document.jobs, timeout=3 * WAIT_MS)
+    QThreadPool.globalInstance().waitForDone(3 * WAIT_MS)
+    qtbot.wait(50)  # let any outcome of the stopped search arrive
+    assert shown == [] and w.plan is None and not w.solver.busy

@@ -137,15 +137,16 @@ class SolveController(QObject):
         self._timer.start()
         self.busy_changed.emit(True)
 
-    def cancel(self) -> None:
+    def cancel(self, *, keep_search: bool = True) -> None:
         """Stop the solve in progress (the last shown plan stays, marked out of date).
 
         A working-day search stops and hands back its best plan: that outcome is
-        still the current one and arrives as ``plan_ready`` (status "stopped")."""
+        still the current one and arrives as ``plan_ready`` (status "stopped"),
+        unless ``keep_search`` is false (the inputs changed: nothing may arrive)."""
         was_busy = self.busy
         self._timer.stop()
         self._pending = None
-        if self._searching and self._flag is not None:
+        if keep_search and self._searching and self._flag is not None:
             self._flag.set()
             self.stage_changed.emit("Stopping the search; the best plan found is kept…")
             return
