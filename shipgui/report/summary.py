@@ -151,8 +151,8 @@ def _empty_driving_text(plan: Plan) -> str:
         text += "<br/><font size=8>" + {
             "proven least": f"the least possible with {_vehicles_text(plan.vehicles)} "
                             "within the working day",
-            "improved": "improved; not proven the least possible"}.get(
-            plan.workday.deadhead_status, "not optimised") + "</font>"
+            "searched": "searched for less; not proven the least possible"}.get(
+            plan.workday.deadhead_status, "not optimised: no time was left") + "</font>"
     elif plan.least_deadhead and plan.vehicles:
         text += (f"<br/><font size=8>the least possible with "
                  f"{_vehicles_text(plan.vehicles)}</font>")

@@ -175,8 +175,8 @@ def deadhead_caption(plan: Plan) -> str | None:
         return None
     return {"proven least": "empty driving, least possible with "
                             f"{count(plan.vehicles, 'vehicle')}",
-            "improved": "empty driving, improved\n(not proven least)"}.get(
-        plan.workday.deadhead_status, "empty driving\n(not optimised)")
+            "searched": "empty driving, searched for less\n(not proven least)"}.get(
+        plan.workday.deadhead_status, "empty driving\n(not optimised: no time left)")
 
 
 def _short(text: str, limit: int = 24) -> str:
