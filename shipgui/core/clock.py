@@ -4,6 +4,12 @@ Times are seconds after midnight of the plan day.  ``HH:MM`` may go past 23
 (``25:30`` is 01:30 next morning, as transit timetables write it).  Minute
 values are parsed as decimals, never as binary floats, so ``12.3`` minutes is
 exactly 738 seconds; anything finer than a second is rounded *up*.
+
+Every number a dispatcher types (minutes, coordinates, settings) is read by
+:func:`parse_decimal`, so all of them accept the same forms: a decimal point or
+a decimal comma (``12.5`` or ``12,5``, as spreadsheets write it where the comma
+is the decimal mark), an optional sign and exponent; never a thousands
+separator, so ``1,000`` is one and ``1.000,5`` is refused.
 """
 
 from __future__ import annotations
@@ -13,12 +19,14 @@ import re
 from datetime import date, datetime, time, timedelta
 from decimal import Decimal, InvalidOperation
 
-__all__ = ["ClockValue", "parse_clock", "parse_minutes", "parse_length", "MAX_WORKING_DAY",
-           "format_clock", "format_clock_or_none",
+__all__ = ["ClockValue", "parse_clock", "parse_minutes", "parse_decimal", "NUMBER_FORMS",
+           "parse_length", "MAX_WORKING_DAY", "format_clock", "format_clock_or_none",
            "format_day_clock", "day_mark", "format_minutes", "format_duration", "shown_minutes",
            "minutes_value", "resolve_clock"]
 
 _HHMM = re.compile(r"^(\d{1,2}):(\d{2})(?::(\d{2}))?$")
+_NUMBER = re.compile(r"[+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d{1,6})?")
+NUMBER_FORMS = "write numbers like 12.5 or 12,5"
 MAX_HOURS = 48  # a plan day plus the following night; more is almost surely a typo
 
 
@@ -72,15 +80,27 @@ def resolve_clock(value: ClockValue, plan_date: date | None) -> int:
     return math.ceil(delta / timedelta(seconds=1))
 
 
+def parse_decimal(text: str) -> Decimal:
+    """A number as a dispatcher writes it (see the module note), exactly.
+
+    Raises ``ValueError`` (no message: the caller says what was expected).
+    """
+    text = text.strip()
+    if not _NUMBER.fullmatch(text):
+        raise ValueError
+    try:
+        return Decimal(text.replace(",", "."))
+    except InvalidOperation:  # pragma: no cover - the pattern admits only numbers
+        raise ValueError from None
+
+
 def parse_minutes(text: str, *, allow_zero: bool = True) -> int:
     """Minutes as written (decimals allowed) to whole seconds, rounded up."""
     text = text.strip()
     try:
-        value = Decimal(text)
-    except InvalidOperation:
-        raise ValueError(f"'{text}' is not a number of minutes") from None
-    if not value.is_finite():
-        raise ValueError(f"'{text}' is not a number of minutes")
+        value = parse_decimal(text)
+    except ValueError:
+        raise ValueError(f"'{text}' is not a number of minutes ({NUMBER_FORMS})") from None
     if value < 0 or (value == 0 and not allow_zero):
         raise ValueError(f"'{text}' minutes: must be {'zero or ' if allow_zero else ''}"
                          "more than zero")

@@ -16,9 +16,12 @@ from dataclasses import dataclass, field
 from datetime import date
 from pathlib import Path
 
+from .clock import parse_clock, resolve_clock
 from .day import build_inputs
 from .drivers import Driver, DriverPlace, place_drivers
 from .io.plan_file import read_plan_file, write_plan_file
+from .io.readers import parse_movable, parse_priority
+from .io.validation import ID_COLUMNS, IdRegister, check_job, check_text
 from .model import Day, DayInputs, Job, Settings, Site
 
 __all__ = ["Change", "DayDocument", "JOB_FIELDS"]
@@ -83,6 +86,62 @@ class DayDocument:
 
     def has_job_id(self, job_id: str, *, except_row: int = -1) -> bool:
         return any(j.id == job_id for r, j in enumerate(self.jobs) if r != except_row)
+
+    def checked_value(self, row: int, name: str, text: str) -> str | int | float | bool:
+        """The value to store for ``text`` typed into field ``name`` of job ``row``.
+
+        The same rules as the day files and plan files
+        (:mod:`shipgui.core.io.validation`); ``ValueError`` with a sentence for
+        the dispatcher when the value is refused.
+        """
+        if name not in JOB_FIELDS:
+            raise KeyError(name)
+        job = self.jobs[row]
+        column = "job" if name == "id" else name
+        value: str | int | float | bool
+        try:
+            if name in ("start", "end"):
+                value = self._clock(text)
+            elif name == "priority":
+                value = parse_priority(text.strip() or "1")
+            elif name == "movable":
+                value = parse_movable(text)
+            else:
+                value = check_text(text, id_like=column in ID_COLUMNS)
+                if name == "destination" and not value:
+                    value = job.origin
+        except ValueError as exc:
+            raise ValueError(_sentence(job.id, exc)) from None
+        changed = dataclasses.replace(job, **{name: value})
+        problems = check_job(changed)
+        if problems:
+            mine = [m for c, m in problems if c == column] or [m for _c, m in problems]
+            raise ValueError(_sentence(job.id, mine[0]))
+        if name == "id":
+            self._check_new_id(row, str(value))
+        return value
+
+    def _clock(self, text: str) -> int:
+        parsed = parse_clock(text)  # ValueError with a readable reason
+        if parsed.seconds is not None:
+            return parsed.seconds
+        if self.plan_date is None:
+            raise ValueError(f"'{text.strip()}': type a clock time HH:MM (25:30 is 01:30 next "
+                             "day), or set the plan date to type dates")
+        return resolve_clock(parsed, self.plan_date)
+
+    def _check_new_id(self, row: int, job_id: str) -> None:
+        others = IdRegister("job")
+        for k, other in enumerate(self.jobs):
+            if k != row:
+                others.add(other.id)
+        clash = others.find(job_id)
+        if clash is None:
+            return
+        if clash[0] == job_id:
+            raise ValueError(f"There is already a job {job_id}; job ids must be unique.")
+        raise ValueError(f"'{job_id}' looks the same as job {clash[0]} but is written with "
+                         "other characters; job ids must differ visibly.")
 
     def new_job_id(self) -> str:
         """An id not used yet: N1, N2, ..."""
@@ -201,3 +260,9 @@ class DayDocument:
             if f.name != "_listeners":
                 setattr(self, f.name, getattr(other, f.name))
         self._notify(change, True)
+
+
+def _sentence(job_id: str, reason: object) -> str:
+    """A refusal for the dispatcher: 'Job J1: the value ...'."""
+    text = str(reason)
+    return f"Job {job_id}: {text}" if job_id else text[:1].upper() + text[1:]

@@ -26,6 +26,7 @@ class Problem:
     file: str | None = None
     row: int | None = None
     column: str | None = None
+    job: str | None = None  # the id of the job it is about, where it is about one job
 
     def __str__(self) -> str:
         where = []
@@ -35,6 +36,8 @@ class Problem:
             where.append(f"row {self.row}")
         if self.column:
             where.append(f"column '{self.column}'")
+        if self.job:
+            where.append(f"job {self.job}")
         return (", ".join(where) + ": " if where else "") + self.message
 
 
@@ -42,8 +45,9 @@ class InputError(Exception):
     """Bad input: a file, a row, a column and what is wrong with it."""
 
     def __init__(self, message: str, *, file: str | Path | None = None,
-                 row: int | None = None, column: str | None = None) -> None:
-        self.problem = Problem(message, None if file is None else str(file), row, column)
+                 row: int | None = None, column: str | None = None,
+                 job: str | None = None) -> None:
+        self.problem = Problem(message, None if file is None else str(file), row, column, job)
         super().__init__(str(self.problem))
 
     @property
@@ -62,6 +66,10 @@ class InputError(Exception):
     def column(self) -> str | None:
         return self.problem.column
 
+    @property
+    def job(self) -> str | None:
+        return self.problem.job
+
 
 class InputErrors(InputError):
     """Several problems found together (all problems of one file, up to a limit)."""
@@ -72,7 +80,8 @@ class InputErrors(InputError):
         self._problems = tuple(problems)
         self.more = more
         first = problems[0]
-        super().__init__(first.message, file=first.file, row=first.row, column=first.column)
+        super().__init__(first.message, file=first.file, row=first.row, column=first.column,
+                         job=first.job)
         lines = [str(p) for p in problems]
         if more:
             lines.append(f"... and {more} more problems")
@@ -94,11 +103,20 @@ class ProblemCollector:
     more: int = 0
 
     def add(self, message: str, file: str | None = None, row: int | None = None,
-            column: str | None = None) -> None:
+            column: str | None = None, job: str | None = None) -> None:
         if len(self.problems) < MAX_PROBLEMS:
-            self.problems.append(Problem(message, file, row, column))
+            self.problems.append(Problem(message, file, row, column, job))
         else:
             self.more += 1
+
+    def absorb(self, error: InputError) -> None:
+        """Add the problems of an error raised elsewhere (counted against the same cap)."""
+        for p in error.problems:
+            self.add(p.message, p.file, p.row, p.column, p.job)
+        self.more += getattr(error, "more", 0)
+
+    def __len__(self) -> int:
+        return len(self.problems) + self.more
 
     def raise_if_any(self) -> None:
         if self.problems:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from datetime import date
+from typing import NamedTuple
 
 import numpy as np
 
@@ -11,7 +12,8 @@ from .drivers import Driver
 
 __all__ = ["Job", "Site", "Settings", "DayInputs", "Day", "Plan", "WorkdayInfo",
            "DEFAULT_SPEED_KMH", "DEFAULT_CIRCUITY", "TravelPairs", "SITE_DETAILS",
-           "PRIORITY_UNIT", "priority_units", "ServiceProof", "Shortfall"]
+           "PRIORITY_UNIT", "priority_units", "ServiceProof", "Shortfall",
+           "ShortenedTravel"]
 
 # Straight-line distance times a circuity factor gives road distance.  1.20 is
 # the mean road circuity measured for the USA in Ballou, Rahardja & Sakai,
@@ -72,6 +74,7 @@ class Site:
     phone: str = ""
     opening_hours: str = ""
     access_notes: str = ""
+    row: int = field(default=0, compare=False)  # row in the sites file, for messages
 
     @property
     def has_latlon(self) -> bool:
@@ -112,6 +115,18 @@ class Settings:
 
 # (from site, to site) -> (seconds, row in the travel file)
 TravelPairs = dict[tuple[str, str], tuple[int, int]]
+
+
+class ShortenedTravel(NamedTuple):
+    """A travel time the shortest-path closure lowered: driving via other sites is
+    quicker than the time given (or estimated).  Seconds; ``row`` is the pair's
+    row in the travel file, 0 for an estimate from coordinates."""
+
+    origin: str
+    destination: str
+    given: int
+    used: int
+    row: int = 0
 
 
 @dataclass(frozen=True)
@@ -155,6 +170,8 @@ class Day:
     plan_date: date | None = None
     sources: dict[str, str] = field(default_factory=dict)
     fingerprint: str = ""
+    # Every pair the closure shortened (``shortened_pairs`` of them), largest cut first.
+    shortened: tuple[ShortenedTravel, ...] = ()
 
     def __post_init__(self) -> None:
         index = {s: k for k, s in enumerate(self.site_ids)}

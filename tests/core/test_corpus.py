@@ -10,9 +10,11 @@ from pathlib import Path
 import pytest
 
 from shipgui.core import InputError, read_jobs, read_sites, read_travel
+from shipgui.core.io.plan_file import read_plan_file
 
 CORPUS = Path(__file__).resolve().parents[1] / "corpus"
-READERS = {"jobs": read_jobs, "sites": read_sites, "travel": read_travel}
+READERS = {"jobs": read_jobs, "sites": read_sites, "travel": read_travel,
+           "plan": lambda path, sheet=None: read_plan_file(path)}
 
 
 def _expected() -> list[dict[str, str]]:
@@ -28,7 +30,7 @@ def test_the_corpus_is_complete():
     on_disk = {p.name for p in (CORPUS / "bad").iterdir()}
     assert names == on_disk
     assert len(names) >= 40
-    assert {Path(n).suffix for n in names} == {".csv", ".xlsx"}
+    assert {Path(n).suffix for n in names} == {".csv", ".xlsx", ".shipgui"}
 
 
 @pytest.mark.parametrize("case", EXPECTED, ids=[e["file"] for e in EXPECTED])
@@ -47,3 +49,4 @@ def test_bad_file_gives_its_message(case):
     assert problem.column == (case["column"] or None)
     assert case["file"] in str(error)
     assert "Traceback" not in str(error) and len(str(error).splitlines()[0]) < 400
+    assert len(error.problems) <= 50  # a long list ends in "... and N more problems"

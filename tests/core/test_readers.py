@@ -66,7 +66,7 @@ def test_slot_shorter_than_its_drive_names_the_job(tmp_path):
     with pytest.raises(InputError) as e:
         load(tmp_path, JOBS_HEADER + "J9,A,B,07:00,07:30\n")
     p = problem(e)
-    assert "J9" in p.message and "36 min" in p.message and p.row == 2
+    assert p.job == "J9" and "job J9" in str(p) and "36 min" in p.message and p.row == 2
 
 
 def test_control_characters_refused(tmp_path):
@@ -89,9 +89,10 @@ def test_not_utf8_names_the_row(tmp_path):
 
 
 def test_missing_travel_pair_is_named(tmp_path):
+    # B has no coordinates and no travel pair: the pair is named, with the fix.
     with pytest.raises(InputError) as e:
-        load(tmp_path, JOBS_HEADER + "J1,A,C,07:00,09:00\n")
-    assert "C" in str(e.value) and "coordinates" in str(e.value)
+        load(tmp_path, JOBS_HEADER + "J1,A,B,07:00,09:00\n", sites="site,x_km,y_km\nA,0,0\nB,,\n")
+    assert "A -> B" in str(e.value) and "coordinates" in str(e.value)
 
 
 def test_travel_file_overrides_and_closure_is_reported(tmp_path):

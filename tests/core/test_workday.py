@@ -195,7 +195,7 @@ def test_a_job_longer_than_the_limit_is_an_input_error_naming_it():
         build_day(jobs, [], {}, settings=Settings(max_day=10 * hour))
     problem = info.value.problems[0]
     assert (problem.row, problem.column) == (3, "end")
-    assert "J2" in problem.message and "120 min over" in problem.message
+    assert problem.job == "J2" and "120 min over" in problem.message
 
 
 def test_the_search_stops_at_the_time_limit_and_keeps_its_plan():

@@ -80,6 +80,31 @@ _XML_BOMB = (b'<?xml version="1.0"?>\n<!DOCTYPE lolz [<!ENTITY lol "lol">'
              b'<sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>&lol2;</t></is></c></row>'
              b'</sheetData></worksheet>')
 
+def _plan(jobs: list[dict] | None = None, **more) -> str:
+    """A plan document (.shipgui) with one good job unless ``jobs`` is given."""
+    import json
+    inputs = {"jobs": jobs if jobs is not None else
+              [{"job": "J1", "origin": "A", "start": "08:00", "end": "09:00"}]}
+    inputs.update(more.pop("inputs", {}))
+    return json.dumps({"format": "shipgui-plan", "schema_version": 1, "inputs": inputs, **more})
+
+
+def _stray_cell_xlsx() -> bytes:
+    """A jobs sheet with a header cell at XFD1 (the last column) and one beyond the
+    named columns in every data row."""
+    import openpyxl
+    book = openpyxl.Workbook()
+    sheet = book.active
+    for row in GOOD_JOBS_ROWS:
+        sheet.append(row)
+    sheet["XFD1"] = "stray"
+    sheet["A2"] = "J1"
+    sheet["E2"] = time(7, 0)  # ends when it starts: the file still has to say so
+    out = io.BytesIO()
+    book.save(out)
+    return out.getvalue()
+
+
 GOOD_JOBS_ROWS = [["job", "origin", "destination", "start", "end"],
                   ["J1", "A", "B", time(7, 0), time(8, 30)]]
 
@@ -186,6 +211,60 @@ ENTRIES: list[Entry] = [
      lambda: "from,to\nA,B\n"),
     ("travel_empty_to.csv", "travel", "", "2", "to", "'to' is empty",
      lambda: TRAVEL + "A,,5\n"),
+    ("jobs_absurd_width.csv", "jobs", "", "1", "", "wider than any spreadsheet",
+     lambda: "job,origin,start,end" + "," * 20_000 + "stray\nJ1,A,07:00,08:00\n"),
+    ("jobs_too_many_columns.csv", "jobs", "", "1", "", "over 500",
+     lambda: "job,origin,start,end," + ",".join(f"c{k}" for k in range(600)) + "\n"),
+    ("jobs_wide_header_bad_time.csv", "jobs", "", "2", "start", "is not a time",
+     lambda: "job,origin,start,end" + "," * 50_000 + "\nJ1,A,7h,08:00\n"),
+    ("jobs_invisible_id.csv", "jobs", "", "3", "job", "invisible character (U+200B)",
+     lambda: JOBS + "J1,A,B,07:00,08:00\nJ\u200b1,A,B,09:00,10:00\n"),
+    ("jobs_lookalike_id.csv", "jobs", "", "3", "job", "looks the same as job 'J1'",
+     lambda: JOBS + "J1,A,B,07:00,08:00\n\uff2a1,A,B,09:00,10:00\n"),
+    ("jobs_long_id.csv", "jobs", "", "2", "job", "not an id",
+     lambda: JOBS + "J" * 150 + ",A,B,07:00,08:00\n"),
+    ("jobs_decimal_comma_typo.csv", "jobs", "", "2", "duration", "12,5",
+     lambda: "job;origin;start;duration\nJ1;A;07:00;12,,5\n"),
+    ("jobs_thousands_separator.csv", "jobs", "", "2", "duration", "not a number of minutes",
+     lambda: 'job,origin,start,duration\nJ1,A,07:00,"1.000,5"\n'),
+    ("sites_thousands_separator.csv", "sites", "", "2", "lon", "not a number between",
+     lambda: "site;lat;lon\nA;48,5;10.000,5\n"),
+    ("sites_lat_out_of_range_swapped.csv", "sites", "", "2", "lat", "lat and lon swapped",
+     lambda: SITES + "A,Alder yard,120.5,45.2\n"),
+    ("sites_lookalike_id.csv", "sites", "", "3", "site", "looks the same as site 'A'",
+     lambda: SITES + "A,Alder yard,50,10\n\uff21,Again,51,10\n"),
+    # --------------------------------------------------------------- plan files
+    ("plan_huge_integer.shipgui", "plan", "", "1", "lat", "number from -90 to 90",
+     lambda: _plan(inputs={"sites": [{"site": "A", "lat": 10**400, "lon": 1}]})),
+    ("plan_huge_float.shipgui", "plan", "", "", "speed_kmh", "number from 0.1 to 1000",
+     lambda: _plan(settings={"speed_kmh": 1}).replace('"speed_kmh": 1', '"speed_kmh": 1e400')),
+    ("plan_huge_turnaround.shipgui", "plan", "", "", "turnaround_seconds", "whole number",
+     lambda: _plan(settings={"turnaround_seconds": 10**400})),
+    ("plan_half_second.shipgui", "plan", "", "", "turnaround_seconds", "whole number",
+     lambda: _plan(settings={"turnaround_seconds": 0.5})),
+    ("plan_surrogate_notes.shipgui", "plan", "", "1", "notes", "broken character",
+     lambda: _plan([{"job": "J1", "origin": "A", "start": "08:00", "end": "09:00",
+                     "notes": "\ud800"}])),
+    ("plan_surrogate_driver.shipgui", "plan", "", "", "driver_names.1", "broken character",
+     lambda: _plan(driver_names={"1": "\udc41na"})),
+    ("plan_control_id.shipgui", "plan", "", "1", "job", "control character",
+     lambda: _plan([{"job": "J1\x1b[2J", "origin": "A", "start": "08:00", "end": "09:00"}])),
+    ("plan_huge_id.shipgui", "plan", "", "1", "job", "not an id",
+     lambda: _plan([{"job": "J" * 200_000, "origin": "A", "start": "08:00",
+                     "end": "09:00"}])),
+    ("plan_duplicate_site.shipgui", "plan", "", "2", "site", "listed twice",
+     lambda: _plan(inputs={"sites": [{"site": "A", "x_km": 0, "y_km": 0},
+                                     {"site": "A", "x_km": 5, "y_km": 0}]})),
+    ("plan_duplicate_travel.shipgui", "plan", "", "2", "from", "listed twice",
+     lambda: _plan(inputs={"travel": [{"from": "A", "to": "B", "seconds": 60},
+                                      {"from": "A", "to": "B", "seconds": 90}]})),
+    ("plan_day_start_without_depot.shipgui", "plan", "", "", "day_start", "needs a depot",
+     lambda: _plan(settings={"day_start": "05:00"})),
+    ("plan_many_problems.shipgui", "plan", "", "1", "end", "more problems",
+     lambda: _plan([{"job": f"J{k}", "origin": "A", "start": "09:00", "end": "08:00"}
+                    for k in range(2_000)])),
+    ("plan_with_bom_bad_time.shipgui", "plan", "", "1", "start", "is not a time",
+     lambda: "\ufeff" + _plan([{"job": "J1", "origin": "A", "start": "8h", "end": "09:00"}])),
     # --------------------------------------------------------------- workbooks
     ("jobs_formula_without_value.xlsx", "jobs", "", "2", "end", "recalculate",
      lambda: _xlsx([GOOD_JOBS_ROWS[0], ["J1", "A", "B", time(7), "=D2+TIME(1,0,0)"]])),
@@ -219,6 +298,8 @@ ENTRIES: list[Entry] = [
     ("sites_latitude_95.xlsx", "sites", "Sites", "3", "lat", "between -90 and 90",
      lambda: _xlsx(GOOD_JOBS_ROWS, extra={"Sites": [["site", "lat", "lon"], ["A", 50.5, 10.25],
                                                     ["B", 95.0, 10.0]]})),
+    ("jobs_stray_header_cell.xlsx", "jobs", "", "2", "end", "before or when it starts",
+     _stray_cell_xlsx),
     ("travel_duplicate_pair.xlsx", "travel", "", "3", "from", "listed twice",
      lambda: _xlsx([["from", "to", "minutes"], ["A", "B", 10], ["A", "B", 12.5]],
                    title="Travel")),
@@ -232,7 +313,9 @@ def write_corpus() -> None:
         out.writerow(["file", "kind", "sheet", "row", "column", "phrase"])
         for name, kind, sheet, row, column, phrase, content in ENTRIES:
             data = content()
-            (BAD / name).write_bytes(data.encode("utf-8") if isinstance(data, str) else data)
+            # surrogatepass: a plan file may carry "\ud800" escapes, never raw surrogates
+            (BAD / name).write_bytes(data.encode("utf-8", "surrogatepass")
+                                     if isinstance(data, str) else data)
             out.writerow([name, kind, sheet, row, column, phrase])
 
 

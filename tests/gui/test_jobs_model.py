@@ -50,8 +50,18 @@ def test_edit_pushes_one_undo_command(setup):
     (Column.END, "07:00", "before or when it starts"),
     (Column.START, "08:75", "minutes and seconds go up to 59"),
     (Column.JOB, "J2", "already a job J2"),
-    (Column.JOB, "  ", "needs an id"),
-    (Column.ORIGIN, "", "needs a site"),
+    (Column.JOB, "  ", "'job' is empty"),
+    (Column.ORIGIN, "", "'origin' is empty"),
+    # The rules of the day files (issue: cell edits accepted what files refuse).
+    (Column.NOTES, "gate\nfour", "control character"),
+    (Column.CUSTOMER, "Acme\x00", "control character"),
+    (Column.REFERENCE, "\x1b[31mred", "control character"),
+    (Column.NOTES, "n" * 20_000, "20000 characters long"),
+    (Column.JOB, "J" * 101, "not an id"),
+    (Column.JOB, "J\u200b2", "invisible character (U+200B)"),
+    (Column.JOB, "\uff2a2", "looks the same as job J2"),
+    (Column.ORIGIN, "A\u00a0B", "invisible character (U+00A0)"),
+    (Column.START, "2026-12-02T07:00", "set the plan date"),
 ])
 def test_bad_values_are_refused_with_a_message(qtbot, setup, column, text, words):
     doc, stack, model, _proxy, _t = setup

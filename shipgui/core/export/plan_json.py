@@ -59,6 +59,12 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         "fingerprint": day.fingerprint,
         "warnings": list(day.warnings),
         "travel_pairs_shortened": day.shortened_pairs,
+        # Which travel times the closure shortened: given and used minutes, and the
+        # pair's row in the travel file (0: estimated from coordinates).
+        "travel_shortened": [{"from": p.origin, "to": p.destination,
+                              "given_minutes": _minutes(p.given),
+                              "used_minutes": _minutes(p.used), "row": p.row}
+                             for p in day.shortened],
         "settings": {
             "turnaround_minutes": _minutes(day.settings.turnaround),
             "depot": day.settings.depot,

@@ -169,6 +169,7 @@ def _pick_sheet(book, sheet: str | None, path: Path):
 def _sheet_rows(path: Path, values, formulas, max_rows: int, minutes_columns: frozenset[str],
                 problems: list[Problem]) -> Iterator[tuple[int, list[str]]]:
     columns: list[str] | None = None
+    named: list[int] = []
     filled = 0
     formula_rows = formulas.iter_rows() if formulas is not None else None
     for number, cells in enumerate(values.iter_rows(), start=1):
@@ -183,13 +184,22 @@ def _sheet_rows(path: Path, values, formulas, max_rows: int, minutes_columns: fr
         if filled > max_rows + 1:
             raise InputError(f"more than {max_rows} rows; this is not a one-day file",
                              file=path, row=number)
-        texts = []
-        for k, cell in enumerate(cells):
-            column = columns[k] if columns is not None and k < len(columns) else None
-            formula = formula_cells[k] if k < len(formula_cells) else None
-            texts.append(_cell(path, number, column, cell, formula, minutes_columns, problems))
-        if columns is None:
+        if columns is None:  # the header: every cell
+            texts = [_cell(path, number, None, cell,
+                           formula_cells[k] if k < len(formula_cells) else None,
+                           minutes_columns, problems) for k, cell in enumerate(cells)]
             columns = [t.strip().lower() for t in texts]
+            named = [k for k, name in enumerate(columns) if name]
+            yield number, texts
+            continue
+        # Data rows: only the named columns are read, so a stray cell far to the
+        # right (which pads the row to its column) costs nothing per cell.
+        texts = [""] * min(len(cells), named[-1] + 1 if named else 0)
+        for k in named:
+            if k < len(cells):
+                formula = formula_cells[k] if k < len(formula_cells) else None
+                texts[k] = _cell(path, number, columns[k], cells[k], formula, minutes_columns,
+                                 problems)
         yield number, texts
 
 

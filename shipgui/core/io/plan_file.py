@@ -17,10 +17,22 @@ from pathlib import Path
 
 from ..clock import MAX_WORKING_DAY, format_clock, format_clock_or_none, parse_clock
 from ..drivers import Driver, drivers_from_numbers
-from ..errors import InputError, InputErrors, Problem
-from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
+from ..errors import InputError, ProblemCollector
+from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site, TravelPairs
 from .files import write_bytes_atomic
 from .readers import parse_priority
+from .validation import (
+    COORDINATE_RANGES,
+    ID_COLUMNS,
+    JOB_COLUMNS,
+    MAX_TRAVEL_SECONDS,
+    IdRegister,
+    check_job,
+    check_settings,
+    check_site,
+    check_text,
+    check_travel,
+)
 
 __all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "inputs_to_json", "inputs_from_json",
            "plan_file_bytes", "write_plan_file", "read_plan_json", "read_plan_file"]
@@ -56,7 +68,9 @@ def inputs_to_json(inputs: DayInputs) -> dict:
                      "max_day_seconds": s.max_day},
         "drivers": [{"name": d.name, "jobs": sorted(d.jobs)} if d.jobs or d.vehicle is None
                     else {"name": d.name, "vehicle": d.vehicle} for d in inputs.drivers],
-        "sources": dict(inputs.sources),
+        # A file name the system could not decode holds stand-ins for its bytes
+        # (lone surrogates), which UTF-8 cannot store: keep a readable form.
+        "sources": {k: _storable(v) for k, v in inputs.sources.items()},
     }
 
 
@@ -73,6 +87,10 @@ def _job_record(j: Job) -> dict:
     return record
 
 
+def _storable(text: str) -> str:
+    return text.encode("utf-8", "replace").decode("utf-8")
+
+
 def plan_file_bytes(inputs: DayInputs) -> bytes:
     """The plan file's bytes (UTF-8 JSON)."""
     text = json.dumps(inputs_to_json(inputs), indent=2, ensure_ascii=False) + "\n"
@@ -85,45 +103,70 @@ def write_plan_file(inputs: DayInputs, path: str | Path) -> None:
 
 
 class _Reader:
-    """Collects the problems of one plan document."""
+    """Collects the problems of one plan document (up to the usual cap)."""
 
     def __init__(self, path: str) -> None:
         self.path = path
-        self.problems: list[Problem] = []
+        self.issues = ProblemCollector()
 
-    def add(self, message: str, row: int | None = None, column: str | None = None) -> None:
-        self.problems.append(Problem(message, self.path, row, column))
+    def add(self, message: str, row: int | None = None, column: str | None = None,
+            job: str | None = None) -> None:
+        self.issues.add(message, self.path, row, column, job)
 
-    def text(self, record: dict, key: str, row: int, *, required: bool = False) -> str:
+    def text(self, record: dict, key: str, row: int | None, *, id_like: bool = False,
+             required: bool = False) -> str | None:
+        """The checked text of ``record[key]`` ('' when absent); None when refused."""
         value = record.get(key, "")
         if value is None:
             value = ""
         if not isinstance(value, str):
             self.add(f"'{key}' should be text", row, key)
-            return ""
-        if required and not value.strip():
-            self.add(f"'{key}' is empty", row, key)
-        return value.strip()
-
-    def clock(self, value, row: int | None, key: str) -> int | None:
+            return None
         try:
-            parsed = parse_clock(str(value))
+            value = check_text(value, id_like=id_like)
         except ValueError as exc:
             self.add(str(exc), row, key)
             return None
-        if parsed.seconds is None:
-            self.add(f"'{value}' should be a clock time HH:MM", row, key)
-        return parsed.seconds
-
-    def number(self, value, row: int | None, key: str, *, optional: bool = True,
-               low: float = -1e9, high: float = 1e9):
-        if value is None and optional:
-            return None
-        if isinstance(value, bool) or not isinstance(value, int | float) \
-                or not math.isfinite(value) or not low <= value <= high:
-            self.add(f"'{key}' should be a number between {low:g} and {high:g}", row, key)
+        if required and not value:
+            self.add(f"'{key}' is empty", row, key)
             return None
         return value
+
+    def clock(self, value, row: int | None, key: str, job: str | None = None) -> int | None:
+        if value is None or value == "":
+            self.add(f"'{key}' is empty", row, key, job)
+            return None
+        if not isinstance(value, str):
+            self.add(f"'{key}' should be a clock time HH:MM", row, key, job)
+            return None
+        try:
+            parsed = parse_clock(value)
+        except ValueError as exc:
+            self.add(str(exc), row, key, job)
+            return None
+        if parsed.seconds is None:
+            self.add(f"'{value}' should be a clock time HH:MM", row, key, job)
+        return parsed.seconds
+
+    def number(self, value, row: int | None, key: str, *, low: float, high: float,
+               whole: bool = False) -> float | int | None:
+        """A JSON number in [low, high]; huge integers (10**400) and infinities are
+        refused like any value out of range, never converted."""
+        if value is None:
+            return None
+        kind = "a whole number" if whole else "a number"
+        if isinstance(value, bool) or not isinstance(value, int | float) \
+                or (whole and not isinstance(value, int)) \
+                or (isinstance(value, float) and not math.isfinite(value)) \
+                or not low <= value <= high:
+            self.add(f"'{key}' should be {kind} from {low:g} to {high:g}", row, key)
+            return None
+        return value
+
+    def report(self, problems: list[tuple[str, str]], row: int | None,
+               job: str | None = None) -> None:
+        for column, message in problems:
+            self.add(message, row, column, job)
 
 
 def _records(reader: _Reader, inputs: dict, key: str) -> list[dict]:
@@ -135,23 +178,27 @@ def _records(reader: _Reader, inputs: dict, key: str) -> list[dict]:
 
 
 def _read_jobs(reader: _Reader, records: list[dict]) -> list[Job]:
-    jobs, seen = [], set()
+    jobs = []
+    ids = IdRegister("job")
     for row, r in enumerate(records, start=1):
-        job_id = reader.text(r, "job", row, required=True)
-        origin = reader.text(r, "origin", row, required=True)
-        start = reader.clock(r.get("start"), row, "start")
-        end = reader.clock(r.get("end"), row, "end")
-        if job_id in seen:
-            reader.add(f"job '{job_id}' is listed twice", row, "job")
-        seen.add(job_id)
-        if start is not None and end is not None and end <= start:
-            reader.add(f"job '{job_id}' ends before or when it starts", row, "end")
-        texts = {k: reader.text(r, k, row) for k in
-                 ("destination", "vehicle_class", "customer", "reference", "notes")}
+        texts = {column: reader.text(r, column, row, id_like=column in ID_COLUMNS)
+                 for column in JOB_COLUMNS}
+        job_id = texts["job"] or None
+        start = reader.clock(r.get("start"), row, "start", job_id)
+        end = reader.clock(r.get("end"), row, "end", job_id)
         extra = _job_options(reader, r, row)
-        if start is not None and end is not None and job_id and origin and extra is not None:
-            texts["destination"] = texts["destination"] or origin
-            jobs.append(Job(job_id, origin, start=start, end=end, row=row, **texts, **extra))
+        if any(v is None for v in texts.values()) or None in (start, end, extra):
+            continue
+        job = Job(texts["job"], texts["origin"], texts["destination"] or texts["origin"],
+                  start, end, texts["vehicle_class"], texts["customer"], texts["reference"],
+                  texts["notes"], row=row, **extra)
+        problems = check_job(job)
+        reader.report(problems, row, job_id)
+        clash = ids.add(job.id, row) if job.id else None
+        if clash:
+            reader.add(clash, row, "job", job_id)
+        elif not problems:
+            jobs.append(job)
     return jobs
 
 
@@ -177,48 +224,96 @@ def _job_options(reader: _Reader, record: dict, row: int) -> dict | None:
 
 def _read_sites(reader: _Reader, records: list[dict]) -> list[Site]:
     sites = []
+    ids = IdRegister("site")
     for row, r in enumerate(records, start=1):
-        site_id = reader.text(r, "site", row, required=True)
-        coords = {k: reader.number(r.get(k), row, k, low=-limit, high=limit)
-                  for k, limit in (("lat", 90), ("lon", 180), ("x_km", 1e5), ("y_km", 1e5))}
-        details = {k: reader.text(r, k, row) for k in SITE_DETAILS}
-        sites.append(Site(site_id, reader.text(r, "name", row), reader.text(r, "address", row),
-                          **coords, **details))
+        texts: dict = {k: reader.text(r, k, row, id_like=k == "site")
+                 for k in ("site", "name", "address", *SITE_DETAILS)}
+        coords = {k: reader.number(r.get(k), row, k, low=low, high=high)
+                  for k, (low, high) in COORDINATE_RANGES.items()}
+        bad = sum(r.get(k) is not None for k in coords) - sum(v is not None
+                                                               for v in coords.values())
+        if any(v is None for v in texts.values()) or bad:
+            continue
+        site = Site(texts["site"], texts["name"], texts["address"], row=row,
+                    **{k: texts[k] for k in SITE_DETAILS},
+                    **{k: None if v is None else float(v) for k, v in coords.items()})
+        problems = check_site(site)
+        reader.report(problems, row)
+        clash = ids.add(site.id, row) if site.id else None
+        if clash:
+            reader.add(clash, row, "site")
+        elif not problems:
+            sites.append(site)
     return sites
 
 
-def _read_travel(reader: _Reader, records: list[dict]) -> dict:
-    travel = {}
+def _read_travel(reader: _Reader, records: list[dict]) -> TravelPairs:
+    travel: TravelPairs = {}
     for row, r in enumerate(records, start=1):
-        a = reader.text(r, "from", row, required=True)
-        b = reader.text(r, "to", row, required=True)
-        seconds = r.get("seconds")
-        if isinstance(seconds, bool) or not isinstance(seconds, int) \
-                or not 0 <= seconds <= 100_000 * 60:
-            reader.add("'seconds' should be a whole number, zero or more", row, "seconds")
+        a = reader.text(r, "from", row, id_like=True)
+        b = reader.text(r, "to", row, id_like=True)
+        seconds = reader.number(r.get("seconds"), row, "seconds", low=0,
+                                high=MAX_TRAVEL_SECONDS, whole=True)
+        if seconds is None and "seconds" in r and r["seconds"] is None:
+            reader.add("'seconds' is empty", row, "seconds")
+        if a is None or b is None or seconds is None:
             continue
-        travel[(a, b)] = (seconds, row)
+        problems = check_travel(a, b, int(seconds))
+        reader.report([("seconds" if c == "minutes" else c, m) for c, m in problems], row)
+        if problems:
+            continue
+        if (a, b) in travel:
+            reader.add(f"the pair {a} -> {b} is listed twice (first in row "
+                       f"{travel[(a, b)][1]})", row, "from")
+            continue
+        travel[(a, b)] = (int(seconds), row)
     return travel
 
 
-def _read_settings(reader: _Reader, raw: dict) -> Settings:
+def _read_settings(reader: _Reader, raw) -> Settings:
     if not isinstance(raw, dict):
         reader.add("'settings' should be a record", None, "settings")
         return Settings()
+    defaults = Settings()
     turnaround = reader.number(raw.get("turnaround_seconds", 0), None, "turnaround_seconds",
-                               optional=False, low=0, high=24 * 3600)
+                               low=0, high=24 * 3600, whole=True)
     day = {k: None if raw.get(k) is None else reader.clock(raw[k], None, k)
            for k in ("day_start", "day_end")}
     speed = reader.number(raw.get("speed_kmh"), None, "speed_kmh", low=0.1, high=1000)
     circuity = reader.number(raw.get("circuity"), None, "circuity", low=1, high=100)
     max_day = _read_max_day(reader, raw.get("max_day_seconds"))
-    defaults = Settings()
-    depot = raw.get("depot") or None
-    return Settings(turnaround=int(turnaround or 0),
-                    depot=str(depot) if depot else None, **day,
-                    speed_kmh=float(speed or defaults.speed_kmh),
-                    circuity=float(circuity or defaults.circuity), max_day=max_day,
-                    **_vehicle_limits(reader, raw))
+    depot = reader.text(raw, "depot", None, id_like=True) or None
+    settings = Settings(turnaround=int(turnaround or 0), depot=depot, **day,
+                        speed_kmh=float(speed or defaults.speed_kmh),
+                        circuity=float(circuity or defaults.circuity), max_day=max_day,
+                        **_vehicle_limits(reader, raw))
+    names = {"turnaround": "turnaround_seconds"}
+    reader.report([(names.get(k, k), m) for k, m in check_settings(settings)], None)
+    return settings
+
+
+def _read_names(reader: _Reader, raw, key: str, *, numbered: bool) -> dict:
+    """driver_names (vehicle number -> name) or sources (file kind -> path)."""
+    if raw is None:
+        return {}
+    if not isinstance(raw, dict):
+        reader.add(f"'{key}' should be a record", None, key)
+        return {}
+    found: dict = {}
+    for k, v in raw.items():
+        try:
+            check_text(k)
+        except ValueError as exc:
+            reader.add(f"a key {exc.args[0].removeprefix('the value')}", None, key)
+            continue
+        text = reader.text({f"{key}.{k}": v}, f"{key}.{k}", None)
+        if not text:
+            continue
+        if not numbered:
+            found[k] = text
+        elif k.isascii() and k.isdigit() and len(k) < 7:
+            found[int(k)] = text
+    return found
 
 
 def _vehicle_limits(reader: _Reader, raw: dict) -> dict:
@@ -256,7 +351,8 @@ def _read_max_day(reader: _Reader, value) -> int | None:
 
 
 def inputs_from_json(data, path: str) -> DayInputs:
-    """The inputs in parsed plan-file JSON; raises InputErrors naming every problem."""
+    """The inputs in parsed plan-file JSON; raises InputErrors naming every problem
+    (the same rules as the day files: :mod:`shipgui.core.io.validation`)."""
     reader = _Reader(path)
     if not isinstance(data, dict) or data.get("format") != FORMAT:
         hint = (" It looks like an exported plan; open the plan document (.shipgui) or "
@@ -269,31 +365,26 @@ def inputs_from_json(data, path: str) -> DayInputs:
     travel = _read_travel(reader, _records(reader, inputs, "travel"))
     settings = _read_settings(reader, data.get("settings", {}))
     drivers = _read_drivers(reader, data)
+    sources = _read_names(reader, data.get("sources"), "sources", numbered=False)
     plan_date = None
     if data.get("plan_date"):
         try:
             plan_date = date.fromisoformat(str(data["plan_date"]))
         except ValueError:
             reader.add("'plan_date' should be a date like 2026-12-02", None, "plan_date")
-    if not jobs and not reader.problems:
+    if not jobs and not reader.issues:
         reader.add("the plan document has no jobs")
-    if reader.problems:
-        raise InputErrors(reader.problems)
-    raw_sources = data.get("sources")
-    sources = ({str(k): str(v) for k, v in raw_sources.items()}
-               if isinstance(raw_sources, dict) else {})
+    reader.issues.raise_if_any()
     return DayInputs(tuple(jobs), tuple(sites), travel, settings, plan_date, sources, drivers)
 
 
 def _read_drivers(reader: _Reader, data: dict) -> tuple[Driver, ...]:
     """Driver names tied to their routes' jobs; files before that kept
-    ``driver_names`` by vehicle number, tied to jobs at the first plan."""
+    ``driver_names`` by vehicle number, tied to jobs at the first plan.  Names
+    and job ids follow the text rules of every other value."""
     if "drivers" not in data:
-        names = data.get("driver_names", {})
         return drivers_from_numbers(
-            {int(k): str(v) for k, v in names.items()
-             if str(k).isascii() and str(k).isdigit() and len(str(k)) < 7}
-            if isinstance(names, dict) else {})
+            _read_names(reader, data.get("driver_names"), "driver_names", numbered=True))
     records = data["drivers"]
     if not isinstance(records, list) or not all(isinstance(r, dict) for r in records):
         reader.add("'drivers' should be a list of records", None, "drivers")
@@ -304,6 +395,9 @@ def _read_drivers(reader: _Reader, data: dict) -> tuple[Driver, ...]:
         jobs, vehicle = r.get("jobs", []), r.get("vehicle")
         if not isinstance(jobs, list) or not all(isinstance(j, str) for j in jobs):
             reader.add("'jobs' should be a list of job ids", row, "jobs")
+        elif not all(_clean(j, id_like=True) for j in jobs):
+            reader.add("a job id in 'jobs' holds a control, broken or invisible character",
+                       row, "jobs")
         elif vehicle is not None and (isinstance(vehicle, bool) or not isinstance(vehicle, int)
                                       or not 1 <= vehicle <= 1_000_000):
             reader.add("'vehicle' should be a vehicle number", row, "vehicle")
@@ -312,11 +406,23 @@ def _read_drivers(reader: _Reader, data: dict) -> tuple[Driver, ...]:
     return tuple(drivers)
 
 
+def _clean(text: str, *, id_like: bool = False) -> bool:
+    try:
+        check_text(text, id_like=id_like)
+    except ValueError:
+        return False
+    return True
+
+
 def _check_version(version, path: str) -> None:
     """A clear word for plans from a newer shipgui, and for damaged version fields."""
     if isinstance(version, bool) or not isinstance(version, int):
-        raise InputError(f"the plan document is damaged: its format version {version!r} is "
+        shown = repr(version) if len(repr(version)) < 40 else "(a long value)"
+        raise InputError(f"the plan document is damaged: its format version {shown} is "
                          "not a whole number", file=path)
+    if version > 10**6:
+        raise InputError("the plan document is damaged: its format version is an absurd "
+                         "number", file=path)
     if version > SCHEMA_VERSION:
         raise InputError(f"this plan was saved by a newer version of shipgui (plan format "
                          f"version {version}; this program reads up to version "
@@ -338,11 +444,18 @@ def read_plan_json(path: str | Path):
         if info.st_size > MAX_PLAN_BYTES:
             raise InputError(f"the file is {info.st_size // (1024 * 1024)} MB; a plan document "
                              "is never that big", file=str(path))
-        text = path.read_bytes()[:MAX_PLAN_BYTES + 1].decode("utf-8")
+        # A byte-order mark (some editors write one) is not part of the JSON.
+        text = path.read_bytes()[:MAX_PLAN_BYTES + 1].decode("utf-8-sig")
     except InputError:
         raise
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(f"cannot read the file: {exc}", file=str(path)) from None
+    except FileNotFoundError:
+        raise InputError("the file does not exist", file=str(path)) from None
+    except UnicodeDecodeError:
+        raise InputError("the plan document is damaged (not UTF-8 text)", file=str(path)) \
+            from None
+    except OSError as exc:
+        raise InputError(f"the file cannot be read ({exc.strerror or exc})",
+                         file=str(path)) from None
     try:
         return json.loads(text)
     except json.JSONDecodeError as exc:

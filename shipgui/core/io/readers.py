@@ -8,45 +8,66 @@ need the whole day (travel times, the depot's day) are in
 
 from __future__ import annotations
 
-import math
-import unicodedata
-from collections.abc import Iterable, Mapping
+from collections.abc import Iterable, Iterator, Mapping
 from dataclasses import dataclass
 from datetime import date
-from decimal import Decimal, InvalidOperation
+from decimal import Decimal
 from pathlib import Path
 
-from ..clock import MAX_HOURS, ClockValue, parse_clock, parse_minutes, resolve_clock
+from ..clock import (
+    NUMBER_FORMS,
+    ClockValue,
+    parse_clock,
+    parse_decimal,
+    parse_minutes,
+    resolve_clock,
+)
 from ..errors import MAX_PROBLEMS, InputError, InputErrors, Problem, ProblemCollector
-from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site
+from ..model import SITE_DETAILS, DayInputs, Job, Settings, Site, TravelPairs
 from .tables import Table, read_table
+from .validation import (
+    COORDINATE_RANGES,
+    ID_COLUMNS,
+    IdRegister,
+    check_job,
+    check_site,
+    check_text,
+    check_travel,
+    parse_coordinate,
+)
 
-__all__ = ["read_jobs", "read_sites", "read_travel", "read_inputs", "MAX_PROBLEMS",
-           "parse_priority", "parse_movable"]
+__all__ = ["read_jobs", "read_sites", "read_travel", "read_inputs", "read_day_file",
+           "table_kind", "jobs_from_table", "sites_from_table", "travel_from_table",
+           "MAX_PROBLEMS", "parse_priority", "parse_movable"]
 
 
-def _has_control(text: str) -> bool:
-    return any(unicodedata.category(ch) == "Cc" for ch in text)
+def _printable(text: str) -> bool:
+    try:
+        check_text(text)
+    except ValueError:
+        return False
+    return True
 
 
 def _require(table: Table, columns: Iterable[str], what: str) -> None:
     missing = [c for c in columns if not table.has(c)]
     if missing:
         names = ", ".join(f"'{c}'" for c in missing)
-        has = ", ".join(c for c in table.columns if c and not _has_control(c))
+        has = ", ".join(c for c in table.columns if _printable(c))
         raise InputError(f"the {what} file needs the column{'s' if len(missing) > 1 else ''} "
                          f"{names} in its header row (it has: {has or 'none'})",
                          file=table.path, row=1, column=missing[0])
 
 
-def _table(path: str | Path, *, sheet: str | None, delimiter: str | None,
-           minutes_columns: Iterable[str] = ()) -> Table:
-    return read_table(path, sheet=sheet, delimiter=delimiter, minutes_columns=minutes_columns)
+def _table(path: str | Path, *, sheet: str | None, delimiter: str | None) -> Table:
+    return read_table(path, sheet=sheet, delimiter=delimiter)
 
 
-def _cells(table: Table, issues: ProblemCollector):
-    """Yield (row number, {column: value}) with control characters rejected."""
-    wanted = [c for c in table.columns if c]
+def _cells(table: Table, issues: ProblemCollector,
+           job_column: str | None = None) -> Iterator[tuple[int, dict[str, str]]]:
+    """Yield (row number, {column: value}) for the rows whose every value passes the
+    text rules (:func:`~shipgui.core.io.validation.check_text`); the others are
+    reported, naming the job where the row is one."""
     unreadable = set()
     for p in table.problems:  # cells a workbook could not give a value for
         issues.add(p.message, p.file, p.row, p.column)
@@ -55,12 +76,30 @@ def _cells(table: Table, issues: ProblemCollector):
         if number in unreadable:
             continue
         record = dict(zip(table.columns, values))
-        bad = [c for c in wanted if _has_control(record[c])]
-        for column in bad:
-            issues.add("the value holds a control character (a hidden, non-printing "
-                       "character); retype it", table.path, number, column)
-        if not bad:
+        job = record.get(job_column, "") if job_column else ""
+        if job and not _printable(job):
+            job = ""
+        clean = True
+        for column, value in record.items():
+            try:
+                check_text(value, id_like=column in ID_COLUMNS)
+            except ValueError as exc:
+                issues.add(str(exc), table.path, number, column,
+                           job=None if column == job_column else job or None)
+                clean = False
+        if clean:
             yield number, record
+
+
+def table_kind(table: Table) -> str | None:
+    """"jobs", "sites" or "travel" by the header's columns, else None."""
+    if table.has("job"):
+        return "jobs"
+    if table.has("from") and table.has("to") and table.has("minutes"):
+        return "travel"
+    if table.has("site"):
+        return "sites"
+    return None
 
 
 # ----------------------------------------------------------------------- jobs
@@ -83,12 +122,11 @@ def parse_priority(text: str) -> float:
     """A job's priority as typed: a positive number with at most three decimals
     (a decimal comma is fine).  Raises ``ValueError`` with a readable reason."""
     text = text.strip()
-    plain = text.replace(",", ".") if text.count(",") == 1 and "." not in text else text
     try:
-        value = Decimal(plain)
-    except InvalidOperation:
+        value = parse_decimal(text)  # the one number form of every column
+    except ValueError:
         raise ValueError(f"'{text}' is not a number; a priority is a positive number "
-                         "such as 1, 2 or 0.5") from None
+                         f"such as 1, 2 or 0.5 ({NUMBER_FORMS})") from None
     if not value.is_finite() or value <= 0 or value > MAX_PRIORITY:
         raise ValueError(f"priority '{text}' must be more than 0 and at most "
                          f"{MAX_PRIORITY:,}".replace(",", " "))
@@ -111,27 +149,30 @@ def read_jobs(path: str | Path, *, sheet: str | None = None,
               delimiter: str | None = None) -> tuple[list[Job], date | None]:
     """Read and check the jobs file (CSV, or a sheet of an XLSX workbook); returns
     the jobs and the plan date if the file used date-times (else ``None``)."""
-    table = _table(path, sheet=sheet, delimiter=delimiter, minutes_columns=("duration",))
+    return jobs_from_table(_table(path, sheet=sheet, delimiter=delimiter))
+
+
+def jobs_from_table(table: Table) -> tuple[list[Job], date | None]:
+    """The checked jobs of a table read by :func:`read_table`, and the plan date."""
     _require(table, ("job", "origin", "start"), "jobs")
     if not (table.has("end") or table.has("duration")):
         raise InputError("the jobs file needs a column 'end' or a column 'duration'",
                          file=table.path, row=1, column="end")
     issues = ProblemCollector()
     raws = []
-    seen: dict[str, int] = {}
-    for number, record in _cells(table, issues):
+    ids = IdRegister("job")
+    for number, record in _cells(table, issues, "job"):
         job_id = record.get("job", "")
-        if job_id in seen:
-            issues.add(f"job '{job_id}' is listed twice (first in row {seen[job_id]}); "
-                       "job ids must be unique", table.path, number, "job")
+        clash = ids.add(job_id, number) if job_id else None
+        if clash:
+            issues.add(clash, table.path, number, "job", job=job_id)
             continue
-        if job_id:
-            seen[job_id] = number
-        raws.append(_parse_job_row(table, number, record, issues))
-    raws = [r for r in raws if r is not None]
-    found = len(issues.problems)
+        raw = _parse_job_row(table, number, record, issues)
+        if raw is not None:
+            raws.append(raw)
+    found = len(issues)
     plan_date = _plan_date(table, raws, issues)
-    if len(issues.problems) > found or issues.more:  # no plan date: times cannot be resolved
+    if len(issues) > found:  # no plan date: times cannot be resolved
         issues.raise_if_any()
     jobs = [job for job in (_finish_job(table, raw, plan_date, issues) for raw in raws)
             if job is not None]
@@ -144,10 +185,12 @@ def read_jobs(path: str | Path, *, sheet: str | None = None,
 def _parse_job_row(table: Table, number: int, record: dict[str, str],
                    issues: ProblemCollector) -> _RawJob | None:
     raw = _RawJob(number, record)
+    job = record.get("job") or None
     ok = True
     for column in ("job", "origin", "start"):
         if not record.get(column):
-            issues.add(f"'{column}' is empty; every job needs one", table.path, number, column)
+            issues.add(f"'{column}' is empty; every job needs one", table.path, number, column,
+                       job=job)
             ok = False
     for column in ("start", "end"):
         text = record.get(column, "")
@@ -155,13 +198,13 @@ def _parse_job_row(table: Table, number: int, record: dict[str, str],
             try:
                 setattr(raw, column, parse_clock(text))
             except ValueError as exc:
-                issues.add(str(exc), table.path, number, column)
+                issues.add(str(exc), table.path, number, column, job=job)
                 ok = False
     if record.get("duration"):
         try:
             raw.duration = parse_minutes(record["duration"], allow_zero=False)
         except ValueError as exc:
-            issues.add(str(exc), table.path, number, "duration")
+            issues.add(str(exc), table.path, number, "duration", job=job)
             ok = False
     for column, parse in (("priority", parse_priority), ("movable", parse_movable)):
         text = record.get(column, "")
@@ -170,12 +213,11 @@ def _parse_job_row(table: Table, number: int, record: dict[str, str],
         try:
             setattr(raw, column, parse(text))
         except ValueError as exc:
-            job = f"job {record['job']}: " if record.get("job") else ""
-            issues.add(job + str(exc), table.path, number, column)
+            issues.add(str(exc), table.path, number, column, job=job)
             ok = False
     if ok and raw.end is None and raw.duration is None:
         issues.add("the job has neither an end time nor a duration", table.path, number,
-                   "end" if table.has("end") else "duration")
+                   "end" if table.has("end") else "duration", job=job)
         ok = False
     return raw if ok else None
 
@@ -189,7 +231,7 @@ def _plan_date(table: Table, raws: list[_RawJob], issues: ProblemCollector) -> d
     if aware and len(aware) != len(moments):
         raw, col, _ = next(x for x in moments if x[2].tzinfo is None)
         issues.add("date-times must all carry a UTC offset or all not; this one has none "
-                   "while others do", table.path, raw.row, col)
+                   "while others do", table.path, raw.row, col, job=raw.record.get("job"))
         return None
     if aware:
         zone = aware[0].tzinfo
@@ -198,7 +240,8 @@ def _plan_date(table: Table, raws: list[_RawJob], issues: ProblemCollector) -> d
                 getattr(raw, col).moment = m.astimezone(zone)
             except OverflowError:
                 issues.add("the date-time is out of the calendar's range once converted to "
-                           "the file's time zone", table.path, raw.row, col)
+                           "the file's time zone", table.path, raw.row, col,
+                           job=raw.record.get("job"))
                 return None
     return min(getattr(raw, col).moment.date() for raw, col, _ in moments)
 
@@ -210,78 +253,61 @@ def _finish_job(table: Table, raw: _RawJob, plan_date: date | None,
     end = resolve_clock(raw.end, plan_date) if raw.end is not None else None
     if end is not None and raw.duration is not None and end - start != raw.duration:
         issues.add(f"end {rec['end']} and duration {rec['duration']} min disagree; "
-                   "give one of them", table.path, raw.row, "duration")
+                   "give one of them", table.path, raw.row, "duration", job=rec["job"])
         return None
     if end is None:
         end = start + raw.duration  # type: ignore[operator]
-    for column, value in (("start", start), ("end", end)):
-        if abs(value) > MAX_HOURS * 3600:  # e.g. a date-time typed with the wrong year
-            given = rec.get(column) or f"{rec.get('duration')} min after the start"
-            issues.add(f"the job's {column} ({given}) is more than {MAX_HOURS} hours after the "
-                       "plan day's midnight; a plan covers one day and the night after",
-                       table.path, raw.row, column if rec.get(column) else "duration")
-            return None
-    if end <= start:
-        hint = (" (a job past midnight ends at 24:00 or later, e.g. 25:30)"
-                if raw.end is not None and raw.end.moment is None else "")
-        issues.add(f"the job ends ({rec.get('end')}) before or when it starts "
-                   f"({rec['start']}){hint}", table.path, raw.row, "end")
-        return None
-    return Job(id=rec["job"], origin=rec["origin"],
-               destination=rec.get("destination") or rec["origin"],
-               start=start, end=end, vehicle_class=rec.get("vehicle_class", ""),
-               customer=rec.get("customer", ""), reference=rec.get("reference", ""),
-               notes=rec.get("notes", ""), row=raw.row, priority=raw.priority,
-               movable=raw.movable)
+    job = Job(id=rec["job"], origin=rec["origin"],
+              destination=rec.get("destination") or rec["origin"],
+              start=start, end=end, vehicle_class=rec.get("vehicle_class", ""),
+              customer=rec.get("customer", ""), reference=rec.get("reference", ""),
+              notes=rec.get("notes", ""), row=raw.row, priority=raw.priority,
+              movable=raw.movable)
+    problems = check_job(job)
+    for column, message in problems:
+        if column == "end" and not rec.get("end"):
+            column = "duration"  # the end was worked out from the duration
+        issues.add(message, table.path, raw.row, column, job=job.id)
+    return None if problems else job
 
 
 # ---------------------------------------------------------------------- sites
 
-def _float(text: str, low: float, high: float) -> float:
-    value = float(text.replace(",", ".")) if text.count(",") == 1 and "." not in text \
-        else float(text)
-    if not math.isfinite(value) or not (low <= value <= high):
-        raise ValueError
-    return value
-
-
 def read_sites(path: str | Path, *, sheet: str | None = None,
                delimiter: str | None = None) -> list[Site]:
     """Read and check the sites file (CSV, or a sheet of an XLSX workbook)."""
-    table = _table(path, sheet=sheet, delimiter=delimiter)
+    return sites_from_table(_table(path, sheet=sheet, delimiter=delimiter))
+
+
+def sites_from_table(table: Table) -> list[Site]:
+    """The checked sites of a table read by :func:`read_table`."""
     _require(table, ("site",), "sites")
     issues = ProblemCollector()
     sites: list[Site] = []
-    seen: dict[str, int] = {}
-    ranges = {"lat": (-90, 90), "lon": (-180, 180), "x_km": (-1e5, 1e5), "y_km": (-1e5, 1e5)}
+    ids = IdRegister("site")
     for number, rec in _cells(table, issues):
-        if not rec.get("site"):
-            issues.add("'site' is empty; every site needs an id", table.path, number, "site")
-            continue
         coords: dict[str, float | None] = {}
-        for column, (low, high) in ranges.items():
+        typo = False
+        for column in COORDINATE_RANGES:
             text = rec.get(column, "")
             coords[column] = None
             if text:
                 try:
-                    coords[column] = _float(text, low, high)
-                except ValueError:
-                    issues.add(f"'{text}' is not a number between {low:g} and {high:g}",
-                               table.path, number, column)
-        for a, b in (("lat", "lon"), ("x_km", "y_km")):
-            if (coords[a] is None) != (coords[b] is None) and rec.get(a, "") + rec.get(b, ""):
-                missing = a if coords[a] is None else b
-                issues.add(f"'{a}' and '{b}' go together; '{missing}' is missing",
-                           table.path, number, missing)
-        if rec["site"] in seen:
-            issues.add(f"site '{rec['site']}' is listed twice (first in row "
-                       f"{seen[rec['site']]})", table.path, number, "site")
-            continue
-        seen[rec["site"]] = number
+                    coords[column] = parse_coordinate(text, column)
+                except ValueError as exc:
+                    issues.add(str(exc), table.path, number, column)
+                    typo = True
         details = {column: rec.get(column, "") for column in SITE_DETAILS}
-        sites.append(Site(rec["site"], rec.get("name", ""), rec.get("address", ""),
-                          coords["lat"], coords["lon"], coords["x_km"], coords["y_km"],
-                          **details))
+        site = Site(rec.get("site", ""), rec.get("name", ""), rec.get("address", ""),
+                    row=number, **coords, **details)
+        problems = [] if typo else check_site(site)
+        for column, message in problems:
+            issues.add(message, table.path, number, column)
+        clash = ids.add(site.id, number) if site.id else None
+        if clash:
+            issues.add(clash, table.path, number, "site")
+        elif not typo and not problems:
+            sites.append(site)
     issues.raise_if_any()
     return sites
 
@@ -289,26 +315,27 @@ def read_sites(path: str | Path, *, sheet: str | None = None,
 # --------------------------------------------------------------------- travel
 
 def read_travel(path: str | Path, *, sheet: str | None = None,
-                delimiter: str | None = None) -> dict[tuple[str, str], tuple[int, int]]:
+                delimiter: str | None = None) -> TravelPairs:
     """Read the travel file (CSV or XLSX): (from, to) -> (seconds rounded up, row)."""
-    table = _table(path, sheet=sheet, delimiter=delimiter, minutes_columns=("minutes",))
+    return travel_from_table(_table(path, sheet=sheet, delimiter=delimiter))
+
+
+def travel_from_table(table: Table) -> TravelPairs:
+    """The checked travel pairs of a table read by :func:`read_table`."""
     _require(table, ("from", "to", "minutes"), "travel")
     issues = ProblemCollector()
-    pairs: dict[tuple[str, str], tuple[int, int]] = {}
+    pairs: TravelPairs = {}
     for number, rec in _cells(table, issues):
         a, b = rec["from"], rec["to"]
-        if not a or not b:
-            column = "from" if not a else "to"
-            issues.add(f"'{column}' is empty", table.path, number, column)
-            continue
         try:
             seconds = parse_minutes(rec["minutes"])
         except ValueError as exc:
             issues.add(str(exc), table.path, number, "minutes")
-            continue
-        if a == b and seconds:
-            issues.add("travel from a site to itself is always 0 minutes",
-                       table.path, number, "minutes")
+            seconds = None
+        problems = check_travel(a, b, 0 if seconds is None else seconds)
+        for column, message in problems:
+            issues.add(message, table.path, number, column)
+        if problems or seconds is None:
             continue
         if (a, b) in pairs:
             issues.add(f"the pair {a} -> {b} is listed twice (first in row "
@@ -317,6 +344,22 @@ def read_travel(path: str | Path, *, sheet: str | None = None,
         pairs[(a, b)] = (seconds, number)
     issues.raise_if_any()
     return pairs
+
+
+def read_day_file(path: str | Path, *, sheet: str | None = None,
+                  delimiter: str | None = None) -> tuple[str, object]:
+    """Read a table file of any kind: ("jobs", (jobs, plan date)), ("sites", sites)
+    or ("travel", pairs), by its header.
+
+    The file is read by the same code as for the command line, so it is refused
+    with the same messages; a header that fits no kind is read as a jobs file
+    (as the command line reads its first file), whose message names the missing
+    columns.
+    """
+    table = _table(path, sheet=sheet, delimiter=delimiter)
+    kind = table_kind(table) or "jobs"
+    read = {"jobs": jobs_from_table, "sites": sites_from_table, "travel": travel_from_table}
+    return kind, read[kind](table)
 
 
 # ----------------------------------------------------------------- all files

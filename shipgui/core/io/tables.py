@@ -22,12 +22,17 @@ from pathlib import Path
 from ..errors import InputError, Problem
 from ._xlsx import read_xlsx_rows
 
-__all__ = ["Table", "read_table", "parse_delimiter", "MAX_FILE_BYTES", "MAX_ROWS",
-           "MAX_FIELD_CHARS", "SPREADSHEET_SUFFIXES"]
+__all__ = ["Table", "read_table", "parse_delimiter", "named_positions", "MAX_FILE_BYTES",
+           "MAX_ROWS", "MAX_COLUMNS", "SPREADSHEET_SUFFIXES", "MINUTES_COLUMNS"]
 
 MAX_FILE_BYTES = 64 * 1024 * 1024  # far above any real day; stops a runaway file early
 MAX_ROWS = 200_000
-MAX_FIELD_CHARS = 10_000  # a note longer than a few pages is a broken file, not a note
+# Named columns a day file may have; a jobs file uses about a dozen.
+MAX_COLUMNS = 500
+MAX_SHEET_COLUMNS = 16_384  # the widest sheet a spreadsheet program can hold (A to XFD)
+# Columns whose spreadsheet durations mean minutes (the others read as HH:MM):
+# a job's duration and a travel time.  No other kind of file uses these names.
+MINUTES_COLUMNS = frozenset({"duration", "minutes"})
 SPREADSHEET_SUFFIXES = (".xlsx", ".xlsm", ".xltx", ".xltm")
 
 # Leading bytes of files people save by mistake under a .csv name, so the
@@ -49,7 +54,10 @@ _ZIP = b"PK\x03\x04"
 
 @dataclass(frozen=True)
 class Table:
-    """A header (lower-cased, stripped) and data rows as (row number, values)."""
+    """The named columns of the header (lower-cased, stripped) and data rows as
+    (row number, values of those columns).  Columns without a name are left out,
+    so a stray cell far right or a header ending in thousands of commas costs
+    nothing per row."""
 
     path: str
     columns: tuple[str, ...]
@@ -58,6 +66,11 @@ class Table:
 
     def has(self, column: str) -> bool:
         return column in self.columns
+
+
+def named_positions(header: list[str]) -> list[int]:
+    """Positions of the header cells that hold a column name."""
+    return [k for k, name in enumerate(header) if name.strip()]
 
 
 def parse_delimiter(text: str) -> str:
@@ -73,7 +86,7 @@ def parse_delimiter(text: str) -> str:
 
 
 def read_table(path: str | Path, *, delimiter: str | None = None, sheet: str | None = None,
-               minutes_columns: Iterable[str] = ()) -> Table:
+               minutes_columns: Iterable[str] = MINUTES_COLUMNS) -> Table:
     """Read a CSV file or one sheet of an XLSX workbook.
 
     CSV: UTF-8 with or without BOM, comma or semicolon (detected on the header
@@ -197,24 +210,32 @@ def _table(path: Path, records: Iterable[tuple[int, list[str]]]) -> Table:
     if first is None:
         raise InputError("the file is empty; it needs a header row", file=path)
     header_row, header = first
-    columns = tuple(h.strip().lower() for h in header)
-    seen = set()
-    for name in columns:
-        if name and name in seen:
-            raise InputError(f"the column '{name}' appears twice in the header",
-                             file=path, row=header_row, column=name)
-        seen.add(name)
-    width = len(columns)
+    keep = _check_header(path, header_row, header)
+    columns = tuple(header[k].strip().lower() for k in keep)
     rows = []
     for number, values in records:
-        values = [v.strip() for v in values[:width]]
-        if not any(values):
-            continue
-        for k, value in enumerate(values):
-            if len(value) > MAX_FIELD_CHARS:
-                raise InputError(f"the value is {len(value)} characters long; over "
-                                 f"{MAX_FIELD_CHARS} is not a planning value", file=path,
-                                 row=number, column=columns[k] or None)
-        rows.append((number, tuple(values) + ("",) * (width - len(values))))
+        width = len(values)
+        picked = tuple(values[k].strip() if k < width else "" for k in keep)
+        if any(picked):
+            rows.append((number, picked))
     return Table(str(path), columns, tuple(rows))
+
+
+def _check_header(path: Path, row: int, header: list[str]) -> list[int]:
+    """Positions of the named columns; refuses absurd widths and repeated names."""
+    keep = named_positions(header)
+    if keep and keep[-1] >= MAX_SHEET_COLUMNS:
+        raise InputError(f"the header row reaches column {keep[-1] + 1}, wider than any "
+                         "spreadsheet; this is not a day file", file=path, row=row)
+    if len(keep) > MAX_COLUMNS:
+        raise InputError(f"the header names {len(keep)} columns; over {MAX_COLUMNS} is not a "
+                         "day file", file=path, row=row)
+    seen = set()
+    for k in keep:
+        name = header[k].strip().lower()
+        if name in seen:
+            raise InputError(f"the column '{name}' appears twice in the header",
+                             file=path, row=row, column=name)
+        seen.add(name)
+    return keep
 

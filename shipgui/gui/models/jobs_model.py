@@ -14,10 +14,9 @@ from PySide6.QtCore import (
 )
 from PySide6.QtGui import QColor, QUndoStack
 
-from shipgui.core import Plan, format_clock, parse_clock
+from shipgui.core import Plan, format_clock
 from shipgui.core.document import Change, DayDocument
 from shipgui.core.fleet.shortfall import priority_text, unserved_reasons
-from shipgui.core.io.readers import parse_movable, parse_priority
 from shipgui.core.model import priority_units
 
 from .commands import EditJobField
@@ -79,41 +78,13 @@ class JobRole(IntEnum):
 
 
 def check_field(document: DayDocument, row: int, name: str, text: str):
-    """The value to store for ``text`` typed into field ``name`` of job ``row``.
+    """The value to store for ``text`` typed into field ``name`` of job ``row``: the
+    same rules as for the day files and plan files
+    (:meth:`~shipgui.core.document.DayDocument.checked_value`).
 
     Raises ``ValueError`` with a sentence for the dispatcher when it is refused.
     """
-    text = text.strip()
-    job = document.jobs[row]
-    if name == "id":
-        if not text:
-            raise ValueError("A job needs an id.")
-        if document.has_job_id(text, except_row=row):
-            raise ValueError(f"There is already a job {text}; job ids must be unique.")
-        return text
-    if name == "origin":
-        if not text:
-            raise ValueError(f"Job {job.id} needs a site it starts from.")
-        return text
-    if name == "destination":
-        return text or job.origin
-    if name == "priority":
-        return parse_priority(text or "1")  # raises ValueError with a readable reason
-    if name == "movable":
-        return parse_movable(text)
-    if name in ("start", "end"):
-        value = parse_clock(text)  # raises ValueError with a readable reason
-        if value.seconds is None:
-            raise ValueError(f"'{text}': type a clock time HH:MM (25:30 is 01:30 next day).")
-        seconds = value.seconds
-        start = seconds if name == "start" else job.start
-        end = seconds if name == "end" else job.end
-        if end <= start:
-            raise ValueError(f"Job {job.id} would end ({format_clock(end)}) before or when "
-                             f"it starts ({format_clock(start)}). A job past midnight ends "
-                             "at 24:00 or later, e.g. 25:30.")
-        return seconds
-    return text
+    return document.checked_value(row, name, text)
 
 
 class JobsModel(QAbstractTableModel):
