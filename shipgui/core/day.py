@@ -125,8 +125,7 @@ def build_day(jobs: list[Job], sites: list[Site],
         warnings.append(f"{int(estimated.sum())} travel times were estimated from site "
                         f"coordinates (circuity {settings.circuity:g}, "
                         f"{settings.speed_kmh:g} km/h)")
-    if shortened:
-        warnings.append(_shortened_warning(shortened))
+    warnings.extend(_shortened_warnings(shortened))
     return Day(tuple(jobs), tuple(site_ids), by_id, closed, settings, tuple(warnings),
                shortened_count, int(estimated.sum()), plan_date, sources,
                _fingerprint(jobs, by_id, site_ids, closed, settings), tuple(shortened))
@@ -140,6 +139,8 @@ def settings_text(settings: Settings) -> str:
         parts.append(f"day {format_clock_or_none(s.day_start) or 'open'}"
                      f"–{format_clock_or_none(s.day_end) or 'open'}")
     parts.append(f"turnaround {format_minutes(s.turnaround)} min")
+    if s.max_day is not None:
+        parts.append(f"working day at most {format_duration(s.max_day)}")
     parts.append(f"average speed {s.speed_kmh:g} km/h, road factor {s.circuity:.2f}")
     return ", ".join(parts)
 
@@ -455,27 +456,41 @@ def _raise_job_problems(jobs: list[Job], found: list[tuple[int, str, str]],
 
 def _shortened(matrix: np.ndarray, closed: np.ndarray, site_ids: list[str],
                travel: dict) -> list[ShortenedTravel]:
-    """The pairs the closure shortened, largest cut first."""
+    """The pairs the closure shortened: travel-file pairs first, then estimates;
+    each the largest cut first."""
     rows, cols = np.nonzero((closed < matrix) & (matrix >= 0))
     pairs = [ShortenedTravel(site_ids[a], site_ids[b], int(matrix[a, b]), int(closed[a, b]),
                              travel.get((site_ids[a], site_ids[b]), (0, 0))[1])
              for a, b in zip(rows.tolist(), cols.tolist())]
-    pairs.sort(key=lambda p: (p.used - p.given, p.origin, p.destination))
+    pairs.sort(key=lambda p: (p.row == 0, p.used - p.given, p.origin, p.destination))
     return pairs
 
 
-SHORTENED_LISTED = 10
+SHORTENED_LISTED = 10  # pairs named in a warning; all are in Day.shortened
 
 
-def _shortened_warning(pairs: list[ShortenedTravel]) -> str:
-    listed = "; ".join(f"{p.origin} -> {p.destination} {format_minutes(p.given)} min given, "
-                       f"{format_minutes(p.used)} min used" + ("" if p.row else " (estimated)")
-                       for p in pairs[:SHORTENED_LISTED])
-    more = (f"; and {len(pairs) - SHORTENED_LISTED} more"
-            if len(pairs) > SHORTENED_LISTED else "")
-    return (f"{len(pairs)} travel time{'s were' if len(pairs) != 1 else ' was'} shortened "
-            f"because driving via another site is quicker: {listed}{more}; check those values "
-            "in the travel file")
+def _shortened_warnings(pairs: list[ShortenedTravel]) -> list[str]:
+    """One warning for shortened travel-file times (to check in that file), one for
+    shortened estimates (a given time via another site beats the estimate)."""
+    warnings = []
+    given = [p for p in pairs if p.row]
+    estimated = [p for p in pairs if not p.row]
+    for group, word, advice in (
+            (given, "given", "check those values in the travel file"),
+            (estimated, "estimated",
+             "a travel time given for part of the way is quicker than the estimate")):
+        if not group:
+            continue
+        listed = "; ".join(f"{p.origin} -> {p.destination} {format_minutes(p.given)} min "
+                           f"{word}, {format_minutes(p.used)} min used"
+                           for p in group[:SHORTENED_LISTED])
+        more = (f"; and {len(group) - SHORTENED_LISTED} more"
+                if len(group) > SHORTENED_LISTED else "")
+        kind = "travel time" if word == "given" else "estimated travel time"
+        warnings.append(f"{len(group)} {kind}{'s were' if len(group) != 1 else ' was'} "
+                        f"shortened because driving via another site is quicker: {listed}"
+                        f"{more}; {advice}")
+    return warnings
 
 
 def _check_vehicle_limits(jobs: list[Job], settings: Settings, jobs_file: str | None) -> None:

@@ -213,6 +213,13 @@ class DayDocument:
         self.settings = settings
         self._notify(change, True)
 
+    def set_plan_date(self, plan_date: date | None) -> None:
+        """The plan's date (printed on every page); job times stay as they are."""
+        change = Change("inputs", field="plan_date")
+        self._notify(change, False)
+        self.plan_date = plan_date
+        self._notify(change, True)
+
     def set_sites(self, sites: list[Site], source: str | None) -> None:
         self._set_companion("sites", sites, source)
 

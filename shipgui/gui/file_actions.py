@@ -2,39 +2,53 @@
 
 from __future__ import annotations
 
-import csv
 import importlib.util
 from collections.abc import Callable
+from contextlib import contextmanager
 from pathlib import Path
 
 from PySide6.QtCore import QMimeData, QObject, Signal
 from PySide6.QtGui import QAction, QKeySequence, QUndoStack
 from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox, QStyle, QWidget
 
-from shipgui.core import InputError, Plan, Problem, Settings, read_sites, read_travel
+from shipgui.core import InputError, Plan, Problem
 from shipgui.core.demo import DEMO_SETTINGS, demo_files
 from shipgui.core.document import DayDocument
 from shipgui.core.drivers import names_by_vehicle
 from shipgui.core.export.plan_json import plan_to_json
 from shipgui.core.export.routes_table import write_routes
+from shipgui.core.io.day_files import read_day_files, read_kind
 from shipgui.core.io.files import write_bytes_atomic
 from shipgui.core.io.plan_file import PLAN_SUFFIX
 from shipgui.core.io.readers import read_inputs
 
 from .actions import make_action
 from .models.commands import AttachSites, AttachTravel
-from .panels.problems import ProblemsDialog
+from .panels.problems import ProblemsDialog, problems_of
 from .services.exports import ExportController
-from .services.settings import AppSettings
+from .services.settings import DEFAULT, FOLDER, NONE, AppSettings
 from .wording import os_error_text
 
-__all__ = ["FileActions", "find_pdf_writer", "OPEN_FILTER", "csv_kind", "companion_files"]
+__all__ = ["FileActions", "find_pdf_writer", "OPEN_FILTER", "ORIGIN_TEXT"]
 
-OPEN_FILTER = ("Days (*.shipgui *.csv);;Plan documents (*.shipgui);;Jobs, sites or travel "
-               "(*.csv);;All files (*)")
+_TABLES = "*.csv *.txt *.xlsx *.xlsm *.xltx *.xltm"
+OPEN_FILTER = (f"Days (*.shipgui {_TABLES});;Plan documents (*.shipgui);;Jobs, sites or "
+               f"travel tables ({_TABLES});;All files (*)")
+TABLE_FILTER = f"Tables: CSV or Excel workbook ({_TABLES});;All files (*)"
 PLAN_FILTER = "Plan documents (*.shipgui)"
+PLAN_SUFFIXES = (PLAN_SUFFIX, ".json")  # .json: an exported plan gets a word of advice
 ROUTES_FILTERS = {"CSV for spreadsheets (*.csv)": ".csv", "Excel workbook (*.xlsx)": ".xlsx"}
-DROPPABLE = {".csv", ".shipgui", ".json"}
+
+# Where the day settings on screen come from, as the inputs panel says it.
+PLAN, DEFAULT_SET, EDITED = "plan", "default-set", "edited"
+ORIGIN_TEXT = {
+    FOLDER: "day settings as last used for a day in this folder",
+    DEFAULT: "day settings from your default (no day planned in this folder yet)",
+    NONE: "no day settings remembered for this folder: set depot, day and turnaround",
+    PLAN: "day settings saved in the plan file",
+    DEFAULT_SET: "these day settings are your default for new folders",
+    EDITED: "day settings changed here; the next jobs file from this folder starts with them",
+}
 
 
 def find_pdf_writer() -> Callable | None:
@@ -54,12 +68,14 @@ class FileActions(QObject):
     Works on the window's document, undo stack and settings; ``current_plan()``
     gives the plan on screen when it matches the inputs (else None).  What the
     window must do in turn comes out as signals: ``opened`` (show this day),
-    ``saved`` (the day is safe in this file) and ``message`` (status-bar text).
+    ``saved`` (the day is safe in this file), ``message`` (status-bar text) and
+    ``settings_origin`` (where the day settings on screen come from).
     """
 
     opened = Signal(object, object)  # DayDocument, Path it came from
     saved = Signal(object)  # Path
     message = Signal(str, int)  # text, milliseconds
+    settings_origin = Signal(str)
     quit_requested = Signal()
 
     def __init__(self, document: DayDocument, undo_stack: QUndoStack, settings: AppSettings,
@@ -137,8 +153,8 @@ class FileActions(QObject):
 
     # ------------------------------------------------------------ opening
     def open_dialog(self) -> None:
-        paths, _ = QFileDialog.getOpenFileNames(self.dialog_parent, "Open a day", self._directory(),
-                                                OPEN_FILTER)
+        paths, _ = QFileDialog.getOpenFileNames(self.dialog_parent, "Open a day",
+                                                self._directory(), OPEN_FILTER)
         if paths:
             self.open_paths(paths)
 
@@ -146,32 +162,39 @@ class FileActions(QObject):
         if not self.maybe_save():
             return
         files = demo_files()
-        self._open_csv(files["jobs"], files["sites"], files["travel"], DEMO_SETTINGS)
+        with self._guard("The demo day"):
+            inputs = read_inputs(files["jobs"], files["sites"], files["travel"],
+                                 settings=DEMO_SETTINGS)
+            self._finish_open(DayDocument.from_inputs(inputs), Path(files["jobs"]), None)
 
     def open_paths(self, paths: list[str | Path]) -> bool:
-        """Open a plan document or a jobs CSV; sites / travel CSVs alone are attached."""
+        """Open a plan document, or a day's table files (CSV or XLSX; jobs, sites and
+        travel in any mix, companions found beside the jobs file); sites or travel
+        files alone are attached.  Never raises: every failure is shown."""
         paths = [Path(p) for p in paths]
-        plans = [p for p in paths if p.suffix.lower() in (".shipgui", ".json")]
-        kinds = {p: csv_kind(p) for p in paths if p.suffix.lower() == ".csv"}
-        unknown = [p for p, kind in kinds.items() if kind is None]
-        if unknown:
-            self.show_problems("This file could not be opened.", [Problem(
-                "not a jobs, sites or travel file: the header needs a 'job' column (jobs), "
-                "a 'site' column (sites) or 'from', 'to', 'minutes' (travel)", str(unknown[0]),
-                1)])
-            return False
+        name = paths[0].name if len(paths) == 1 else f"These {len(paths)} files"
+        with self._guard(name) as outcome:
+            outcome.append(self._open_paths(paths, name))
+        return bool(outcome and outcome[0])
+
+    def _open_paths(self, paths: list[Path], name: str) -> bool:
+        plans = [p for p in paths if p.suffix.lower() in PLAN_SUFFIXES]
         if plans:
             return self._open_plan(plans[0])
-        by_kind = {kind: p for p, kind in kinds.items()}
-        if "jobs" in by_kind:
-            found = companion_files(by_kind["jobs"])
-            return self._open_csv(by_kind["jobs"], by_kind.get("sites", found.get("sites")),
-                                  by_kind.get("travel", found.get("travel")), None)
-        ok = True
-        for kind in ("sites", "travel"):
-            if kind in by_kind:
-                ok = self.attach_file(kind, by_kind[kind]) and ok
-        return ok
+        try:
+            files = read_day_files(paths)
+        except InputError as exc:
+            self.show_problems(f"{name} could not be opened; nothing was changed.", exc)
+            return False
+        if files.jobs is None:
+            return all(self._attach(kind, files.paths[kind], getattr(files, kind))
+                       for kind in ("sites", "travel") if kind in files.paths)
+        if not self.maybe_save():
+            return False
+        jobs_path = files.paths["jobs"]
+        settings, origin = self.settings.day_settings_for(jobs_path.parent)
+        self._finish_open(DayDocument.from_inputs(files.inputs(settings)), jobs_path, origin)
+        return True
 
     def _open_plan(self, path: Path) -> bool:
         if not self.maybe_save():
@@ -179,58 +202,94 @@ class FileActions(QObject):
         try:
             document = DayDocument.open(path)
         except InputError as exc:
-            self.show_problems(f"{path.name} could not be opened; nothing was changed.",
-                               list(exc.problems))
+            self.show_problems(f"{path.name} could not be opened; nothing was changed.", exc)
             return False
-        self._finish_open(document, path)
+        self._finish_open(document, path, PLAN)
+        self.remember_day_settings()
         return True
 
-    def _open_csv(self, jobs, sites, travel, settings) -> bool:
-        if settings is None:
-            if not self.maybe_save():
-                return False
-            settings = Settings()
-        try:
-            document = DayDocument.from_inputs(read_inputs(jobs, sites, travel, settings=settings))
-        except InputError as exc:
-            self.show_problems(f"{Path(jobs).name} could not be opened; nothing was changed.",
-                               list(exc.problems))
-            return False
-        self._finish_open(document, Path(jobs))
-        return True
-
-    def _finish_open(self, document, path: Path) -> None:
+    def _finish_open(self, document: DayDocument, path: Path, origin: str | None) -> None:
         self.opened.emit(document, path)
-        if path.suffix.lower() == ".shipgui":
+        if path.suffix.lower() == PLAN_SUFFIX:
             self.settings.add_recent_file(path)
         self._remember(path)
         attached = [k for k in ("sites", "travel") if k in document.sources]
         note = f" with {' and '.join(attached)} files" if attached else ""
-        self.message.emit(f"Opened {path.name}{note}", 6000)
+        where = ORIGIN_TEXT.get(origin, "")
+        self.settings_origin.emit(where)
+        self.message.emit(f"Opened {path.name}{note}" + (f"; {where}" if where else ""), 8000)
 
-    def show_problems(self, heading: str, problems: list[Problem]) -> ProblemsDialog:
+    def show_problems(self, heading: str,
+                      problems: InputError | list[Problem]) -> ProblemsDialog:
         """Show problems in a window that does not block (the day stays as it was)."""
         if self.problem_dialog is not None:
             self.problem_dialog.close()
-        self.problem_dialog = ProblemsDialog(heading, problems, self.dialog_parent)
+        listed, more = (problems_of(problems) if isinstance(problems, InputError)
+                        else (list(problems), 0))
+        self.problem_dialog = ProblemsDialog(heading, listed, self.dialog_parent, more)
         self.problem_dialog.show()
         return self.problem_dialog
+
+    @contextmanager
+    def _guard(self, what: str):
+        """Nothing raised in a slot may escape into Qt: an unexpected failure is
+        shown (with its type, to report it) and the day stays as it was."""
+        outcome: list = []
+        try:
+            yield outcome
+        except Exception as exc:  # noqa: BLE001 - shown to the user, never raised
+            QMessageBox.critical(self.dialog_parent, "Not opened",
+                                 f"{what} could not be opened because of an unexpected error "
+                                 f"({type(exc).__name__}: {str(exc)[:200]}); nothing was "
+                                 "changed. Please report it.")
+
+    # ------------------------------------------------------------ day settings
+    def document_folder(self) -> Path | None:
+        """The folder the day on screen was opened from (its plan file or jobs file),
+        None for the built-in demo or a day not from a file."""
+        doc = self.document
+        source = doc.path or (Path(doc.sources["jobs"]) if "jobs" in doc.sources else None)
+        if source is None:
+            return None
+        folder = source.resolve().parent
+        demo = Path(demo_files()["jobs"]).resolve().parent
+        return None if folder == demo else folder
+
+    def remember_day_settings(self, *, edited: bool = False) -> None:
+        """The day's settings become the ones its folder's next jobs file starts with."""
+        folder = self.document_folder()
+        if folder is None:
+            return
+        self.settings.remember_day_settings(folder, self.document.settings)
+        if edited:
+            self.settings_origin.emit(ORIGIN_TEXT[EDITED])
+
+    def make_default_day_settings(self) -> None:
+        self.settings.set_default_day_settings(self.document.settings)
+        self.settings_origin.emit(ORIGIN_TEXT[DEFAULT_SET])
+        self.message.emit("These day settings are now the default for jobs files from "
+                          "folders not planned before", 8000)
 
     # ------------------------------------------------------------ companions
     def attach_companion(self, kind: str) -> None:
         path, _ = QFileDialog.getOpenFileName(self.dialog_parent, f"Attach a {kind} file",
-                                              self._directory(), "CSV files (*.csv)")
+                                              self._directory(), TABLE_FILTER)
         if path:
             self.attach_file(kind, Path(path))
 
     def attach_file(self, kind: str, path: Path) -> bool:
-        read = read_sites if kind == "sites" else read_travel
-        try:
-            value = read(path)
-        except InputError as exc:
-            self.show_problems(f"The {kind} file {path.name} could not be attached.",
-                               list(exc.problems))
-            return False
+        """Read ``path`` as the day's sites or travel file (as ``--sites`` / ``--travel``
+        read it; a workbook's sheet named like the kind is used if there is one)."""
+        with self._guard(path.name) as outcome:
+            try:
+                _kind, value = read_kind(path, kind)
+            except InputError as exc:
+                self.show_problems(f"The {kind} file {path.name} could not be attached.", exc)
+                return False
+            outcome.append(self._attach(kind, path, value))
+        return bool(outcome and outcome[0])
+
+    def _attach(self, kind: str, path: Path, value) -> bool:
         command = AttachSites if kind == "sites" else AttachTravel
         self.undo_stack.push(command(self.document, value, str(path)))
         self._remember(path)
@@ -238,8 +297,7 @@ class FileActions(QObject):
 
     def remove_companion(self, kind: str) -> None:
         command = AttachSites if kind == "sites" else AttachTravel
-        self.undo_stack.push(command(self.document,
-                                            [] if kind == "sites" else {}, None))
+        self.undo_stack.push(command(self.document, [] if kind == "sites" else {}, None))
 
     # ------------------------------------------------------------ saving
     def save(self) -> bool:
@@ -387,35 +445,7 @@ class FileActions(QObject):
     # ------------------------------------------------------------ drag and drop
     @staticmethod
     def droppable(mime: QMimeData) -> list[Path]:
+        """Every local file: the readers decide what it is (and say so if nothing)."""
         if not mime.hasUrls():
             return []
-        paths = [Path(u.toLocalFile()) for u in mime.urls() if u.isLocalFile()]
-        return [p for p in paths if p.suffix.lower() in DROPPABLE]
-
-
-def csv_kind(path: str | Path) -> str | None:
-    """"jobs", "sites" or "travel" from the header of a CSV file, else None."""
-    try:
-        with open(path, encoding="utf-8-sig", newline="") as f:
-            header = next(csv.reader(f), [])
-    except (OSError, UnicodeDecodeError, csv.Error):
-        return None
-    names = {h.strip().casefold() for h in header}
-    if "job" in names:
-        return "jobs"
-    if {"from", "to", "minutes"} <= names:
-        return "travel"
-    if "site" in names:
-        return "sites"
-    return None
-
-
-def companion_files(jobs: str | Path) -> dict[str, Path]:
-    """Sites and travel files lying next to a jobs file as sites.csv / travel.csv."""
-    folder = Path(jobs).resolve().parent
-    found = {}
-    for kind in ("sites", "travel"):
-        candidate = folder / f"{kind}.csv"
-        if candidate.is_file() and csv_kind(candidate) == kind:
-            found[kind] = candidate
-    return found
+        return [Path(u.toLocalFile()) for u in mime.urls() if u.isLocalFile()]

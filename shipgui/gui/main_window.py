@@ -24,14 +24,14 @@ from shipgui.core.drivers import DriverPlace, names_by_vehicle
 
 from .actions import make_action, themed_icon
 from .file_actions import FileActions
-from .models.commands import AddJob, ChangeSettings, DeleteJobs, NameDriver
+from .models.commands import AddJob, ChangePlanDate, ChangeSettings, DeleteJobs, NameDriver
 from .models.jobs_model import Column, JobsModel
 from .panels.answer_bar import AnswerBar
 from .panels.certificate_panel import CertificatePanel
 from .panels.export_progress import ExportProgress
 from .panels.inputs_panel import InputsPanel
 from .panels.jobs_panel import JobsPanel
-from .panels.problems import ProblemBox
+from .panels.problems import ProblemBox, shortened_heading, shortened_notes
 from .panels.timeline import TimelineView
 from .recovery import offer_recovery
 from .services.autosave import Autosaver, Recovery
@@ -133,6 +133,7 @@ class MainWindow(QMainWindow):
         self.certificate.setVisible(False)
         self.problem_box = ProblemBox()
         self.problem_list = self.problem_box.list  # clicked problems select their job
+        self.problem_heading = self.problem_box.heading
         self.caution = QLabel(CAUTION)
         self.caution.setObjectName("caution")
         self.caution.setWordWrap(True)
@@ -223,6 +224,10 @@ class MainWindow(QMainWindow):
         self.files.saved.connect(self._on_saved)
         self.files.message.connect(self.statusBar().showMessage)
         self.files.quit_requested.connect(self.close)
+        self.files.settings_origin.connect(self.inputs_panel.show_origin)
+        self.inputs_panel.plan_date_edited.connect(
+            lambda day, text: self.undo_stack.push(ChangePlanDate(self.document, day, text)))
+        self.inputs_panel.default_requested.connect(self.files.make_default_day_settings)
         self.inputs_panel.attach_requested.connect(self.files.attach_companion)
         self.inputs_panel.remove_requested.connect(self.files.remove_companion)
         self.jobs_panel.job_selected.connect(self.timeline.select_job)
@@ -233,7 +238,8 @@ class MainWindow(QMainWindow):
         self.certificate.pair_selected.connect(self._on_pair)
         self.fleet.job_selected.connect(self.jobs_panel.select_job)
         self.fleet.moves_shown.connect(self.timeline.set_moves)
-        self.problem_list.cellClicked.connect(self._on_problem_clicked)
+        self.problem_box.problem_clicked.connect(self._on_problem_clicked)
+        self.problem_box.toggle.toggled.connect(self._on_notes_opened)
         self.solver.busy_changed.connect(self._on_busy)
         self.solver.stage_changed.connect(lambda text: self.answer.set_busy(True, text))
         self.solver.plan_ready.connect(self._on_plan)
@@ -311,6 +317,8 @@ class MainWindow(QMainWindow):
                 self._fit_jobs_panel()
             else:  # the splitter has its real width only once the window is shown
                 self._fit_when_shown = True
+        if change.field == "settings":
+            self.files.remember_day_settings(edited=True)
         self.jobs_panel.show_message("")
         self.request_solve()
 
@@ -332,7 +340,11 @@ class MainWindow(QMainWindow):
 
     def _on_plan(self, plan: Plan, seconds: float) -> None:
         self.plan, self.plan_is_current, self.problems = plan, True, []
-        self.problem_box.setVisible(False)
+        notes = shortened_notes(plan.day)
+        if notes:
+            self.problem_box.show_notes(shortened_heading(plan.day), notes)
+        else:
+            self.problem_box.setVisible(False)
         self.answer.show_plan(plan, seconds)
         self._show_drivers(plan)
         self.certificate.set_plan(plan)
@@ -350,7 +362,8 @@ class MainWindow(QMainWindow):
         self._show_empty(f"No plan: {count(len(problems), 'problem')} in the inputs "
                          "(listed above the timeline).")
         self.problem_box.show_problems("The day cannot be planned until these are fixed "
-                                       "(edit the jobs, attach a file or change a setting):",
+                                       "(edit the jobs, attach a file or change a setting; "
+                                       "click a job's problem to select the job):",
                                        self.problems)
         self.plan_shown.emit(None)
 
@@ -438,16 +451,21 @@ class MainWindow(QMainWindow):
         self.jobs_panel.select_job(first)
         self.timeline.select_jobs([first, second])
 
-    def _on_problem_clicked(self, row: int, _column: int) -> None:
-        """Select the job a problem is about (by its row in the jobs file)."""
-        problem = self.problem_list.problem(row)
-        if not problem.row or problem.file != self.document.sources.get("jobs"):
-            return
-        for job in self.document.jobs:
-            if job.row == problem.row:
-                self.left_tabs.setCurrentWidget(self.jobs_panel)
-                self.jobs_panel.select_job(job.id)
-                return
+    def _on_notes_opened(self, opened: bool) -> None:
+        if opened:  # room for a few rows of the list
+            sizes = self.right_splitter.sizes()
+            room = min(220, sum(sizes[:2]) // 2)
+            self.right_splitter.setSizes([room, sum(sizes[:2]) - room, *sizes[2:]])
+
+    def _on_problem_clicked(self, problem: Problem) -> None:
+        """Select the job a problem is about (by its id, else by its row in the jobs file)."""
+        job_id = problem.job if problem.job and self.document.row_of(problem.job) >= 0 else None
+        if job_id is None and problem.row and problem.file == self.document.sources.get("jobs"):
+            job_id = next((j.id for j in self.document.jobs if j.row == problem.row), None)
+        if job_id is not None:
+            self.left_tabs.setCurrentWidget(self.jobs_panel)
+            self.jobs_panel.select_job(job_id)
+            self.timeline.select_job(job_id)
 
     def show_about(self) -> None:
         QMessageBox.about(self, "About shipgui",

@@ -297,7 +297,7 @@ def test_recent_menu_reopens_and_reports_a_missing_file(window, tmp_path):
     actions = window.files.recent_menu.actions()
     assert [a.text() for a in actions] == ["gone.shipgui"]
     actions[0].trigger()
-    assert "cannot read the file" in window.files.problem_dialog.list.problem_texts()[0]
+    assert "the file does not exist" in window.files.problem_dialog.list.problem_texts()[0]
     window.files.problem_dialog.close()
 
 
@@ -330,16 +330,14 @@ def test_double_click_vehicle_names_its_driver(qtbot, small_window, monkeypatch)
     assert w.document.drivers == []
 
 
-def test_csv_kind_and_companions(tmp_path):
-    from shipgui.gui.file_actions import companion_files, csv_kind
-    (tmp_path / "jobs.csv").write_text("Job,Origin,Start,Duration\n")
-    (tmp_path / "sites.csv").write_text("site,lat,lon\n")
-    (tmp_path / "travel.csv").write_text("from,to,minutes\n")
-    (tmp_path / "other.csv").write_text("a,b\n")
-    assert csv_kind(tmp_path / "jobs.csv") == "jobs"
-    assert csv_kind(tmp_path / "travel.csv") == "travel"
-    assert csv_kind(tmp_path / "other.csv") is None
+def test_companions_are_found_by_their_header_not_their_name(tmp_path):
+    from shipgui.core.io.day_files import companion_files, read_day_files
+    (tmp_path / "jobs.csv").write_text("Job,Origin,Start,Duration\nJ1,A,07:00,30\n")
+    (tmp_path / "sites.csv").write_text("site,lat,lon\nA,50,10\n")
+    (tmp_path / "travel.csv").write_text("a,b\n")  # not a travel table: left out
     assert set(companion_files(tmp_path / "jobs.csv")) == {"sites", "travel"}
+    files = read_day_files([tmp_path / "jobs.csv"])
+    assert set(files.paths) == {"jobs", "sites"} and files.sites[0].lat == 50
 
 
 def test_undo_and_redo_read_as_undo_and_redo_not_as_navigation(qtbot, small_window):

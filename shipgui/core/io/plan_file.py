@@ -53,11 +53,11 @@ def inputs_to_json(inputs: DayInputs) -> dict:
         "inputs": {
             "jobs": [_job_record(j) for j in inputs.jobs],
             "sites": [{"site": x.id, "name": x.name, "address": x.address, "lat": x.lat,
-                       "lon": x.lon, "x_km": x.x_km, "y_km": x.y_km,
+                       "lon": x.lon, "x_km": x.x_km, "y_km": x.y_km, "row": x.row,
                        **{k: getattr(x, k) for k in SITE_DETAILS if getattr(x, k)}}
                       for x in inputs.sites],
-            "travel": [{"from": a, "to": b, "seconds": sec}
-                       for (a, b), (sec, _row) in inputs.travel.items()],
+            "travel": [{"from": a, "to": b, "seconds": sec, "row": row}
+                       for (a, b), (sec, row) in inputs.travel.items()],
         },
         "settings": {"turnaround_seconds": s.turnaround, "depot": s.depot,
                      "day_start": format_clock_or_none(s.day_start),
@@ -78,7 +78,7 @@ def _job_record(j: Job) -> dict:
     record = {"job": j.id, "origin": j.origin, "destination": j.destination,
               "start": format_clock(j.start), "end": format_clock(j.end),
               "vehicle_class": j.vehicle_class, "customer": j.customer,
-              "reference": j.reference, "notes": j.notes}
+              "reference": j.reference, "notes": j.notes, "row": j.row}
     # Only where set, so days without them are saved as before.
     if j.priority != 1:
         record["priority"] = j.priority
@@ -163,6 +163,12 @@ class _Reader:
             return None
         return value
 
+    def source_row(self, record: dict, row: int) -> int:
+        """The record's row in the file it was first read from (kept for messages
+        that name that file); 0 when unknown (added in the app, or an older plan)."""
+        value = self.number(record.get("row"), row, "row", low=0, high=10**7, whole=True)
+        return int(value or 0)
+
     def report(self, problems: list[tuple[str, str]], row: int | None,
                job: str | None = None) -> None:
         for column, message in problems:
@@ -191,7 +197,7 @@ def _read_jobs(reader: _Reader, records: list[dict]) -> list[Job]:
             continue
         job = Job(texts["job"], texts["origin"], texts["destination"] or texts["origin"],
                   start, end, texts["vehicle_class"], texts["customer"], texts["reference"],
-                  texts["notes"], row=row, **extra)
+                  texts["notes"], row=reader.source_row(r, row), **extra)
         problems = check_job(job)
         reader.report(problems, row, job_id)
         clash = ids.add(job.id, row) if job.id else None
@@ -234,8 +240,8 @@ def _read_sites(reader: _Reader, records: list[dict]) -> list[Site]:
                                                                for v in coords.values())
         if any(v is None for v in texts.values()) or bad:
             continue
-        site = Site(texts["site"], texts["name"], texts["address"], row=row,
-                    **{k: texts[k] for k in SITE_DETAILS},
+        site = Site(texts["site"], texts["name"], texts["address"],
+                    row=reader.source_row(r, row), **{k: texts[k] for k in SITE_DETAILS},
                     **{k: None if v is None else float(v) for k, v in coords.items()})
         problems = check_site(site)
         reader.report(problems, row)
@@ -249,6 +255,7 @@ def _read_sites(reader: _Reader, records: list[dict]) -> list[Site]:
 
 def _read_travel(reader: _Reader, records: list[dict]) -> TravelPairs:
     travel: TravelPairs = {}
+    first: dict[tuple[str, str], int] = {}  # record of each pair, for messages
     for row, r in enumerate(records, start=1):
         a = reader.text(r, "from", row, id_like=True)
         b = reader.text(r, "to", row, id_like=True)
@@ -262,11 +269,12 @@ def _read_travel(reader: _Reader, records: list[dict]) -> TravelPairs:
         reader.report([("seconds" if c == "minutes" else c, m) for c, m in problems], row)
         if problems:
             continue
-        if (a, b) in travel:
-            reader.add(f"the pair {a} -> {b} is listed twice (first in row "
-                       f"{travel[(a, b)][1]})", row, "from")
+        if (a, b) in first:
+            reader.add(f"the pair {a} -> {b} is listed twice (first in row {first[(a, b)]})",
+                       row, "from")
             continue
-        travel[(a, b)] = (int(seconds), row)
+        first[(a, b)] = row
+        travel[(a, b)] = (int(seconds), reader.source_row(r, row))
     return travel
 
 

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from datetime import date
 from pathlib import Path
 
 from PySide6.QtGui import QUndoCommand
@@ -10,8 +11,8 @@ from shipgui.core import Job, Settings, Site, format_clock
 from shipgui.core.document import DayDocument
 from shipgui.core.drivers import Driver
 
-__all__ = ["EditJobField", "AddJob", "DeleteJobs", "ChangeSettings", "AttachSites",
-           "AttachTravel", "NameDriver", "MoveSlots", "FIELD_LABELS"]
+__all__ = ["EditJobField", "AddJob", "DeleteJobs", "ChangeSettings", "ChangePlanDate",
+           "AttachSites", "AttachTravel", "NameDriver", "MoveSlots", "FIELD_LABELS"]
 
 FIELD_LABELS = {
     "id": "id", "origin": "origin", "destination": "destination", "start": "start",
@@ -98,6 +99,20 @@ class ChangeSettings(QUndoCommand):
 
     def undo(self) -> None:
         self._document.set_settings(self._old)
+
+
+class ChangePlanDate(QUndoCommand):
+    def __init__(self, document: DayDocument, plan_date: date | None, text: str) -> None:
+        super().__init__(text)
+        self._document = document
+        self._old = document.plan_date
+        self._new = plan_date
+
+    def redo(self) -> None:
+        self._document.set_plan_date(self._new)
+
+    def undo(self) -> None:
+        self._document.set_plan_date(self._old)
 
 
 class _AttachCompanion(QUndoCommand):

@@ -27,6 +27,7 @@ from PySide6.QtWidgets import (
 
 from shipgui.core import Plan
 from shipgui.core.clock import format_duration, shown_minutes
+from shipgui.core.day import settings_text
 from shipgui.core.fleet.deadhead import tradeoff_rows
 from shipgui.core.fleet.schedule import class_counts
 from shipgui.core.workday.explain import (
@@ -297,7 +298,8 @@ class AnswerBar(QFrame):
             else f"solved in {seconds:.0f} s"
         # No-break spaces: a narrow bar wraps between the parts, not inside them.
         parts = ("Up to date", count(plan.day.n, "job"), took)
-        self.status.setText(" · ".join(p.replace(" ", "\u00a0") for p in parts) + note)
+        self.status.setText(" · ".join(p.replace(" ", "\u00a0") for p in parts) + note
+                            + f"\nPlanned with {settings_text(plan.day.settings)}")
 
     def _show_classes(self, plan: Plan | None) -> None:
         counts = class_counts(plan) if plan is not None else []

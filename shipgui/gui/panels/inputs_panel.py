@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import dataclasses
+from datetime import date
 from pathlib import Path
 
 from PySide6.QtCore import Qt, Signal
@@ -40,6 +41,10 @@ def _length_text(seconds: int | None) -> str:
     if minutes.is_integer():
         return f"{int(minutes) // 60}:{int(minutes) % 60:02d}"
     return format_minutes(seconds)  # a limit of 612.5 min keeps its half minute
+
+
+def _short(text: str, limit: int = 160) -> str:
+    return text + "." if len(text) <= limit else text[:limit].rsplit(" ", 1)[0] + " …"
 
 
 class _FileRow(QWidget):
@@ -136,14 +141,22 @@ class InputsPanel(QWidget):
 
     settings_edited = Signal(object, str)
     settings_refused = Signal(str)
+    plan_date_edited = Signal(object, str)  # date or None, undo text
+    default_requested = Signal()
     attach_requested = Signal(str)
     remove_requested = Signal(str)
 
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
         self._settings = Settings()
+        self._plan_date: date | None = None
         self._loading = False
         self.jobs_file = QLabel("none")
+        self.plan_date = QLineEdit()
+        self.plan_date.setPlaceholderText("YYYY-MM-DD, or empty")
+        self.plan_date.setMinimumWidth(self.plan_date.fontMetrics().horizontalAdvance(
+            "YYYY-MM-DD, or empty") + 24)
+        self.plan_date.setToolTip("The day the plan is for; printed on every page")
         self.sites_row = _FileRow("sites", "site", self)
         self.travel_row = _FileRow("travel", "travel time", self)
         self.turnaround = QSpinBox()
@@ -186,12 +199,22 @@ class InputsPanel(QWidget):
         self.speed.setToolTip(estimate_tip)
         self.circuity.setToolTip(estimate_tip)
         self.vehicles = _VehiclesRow()
+        self.origin = QLabel("")
+        self.origin.setObjectName("settingsOrigin")
+        self.origin.setWordWrap(True)
+        self.origin.setStyleSheet("color: #56657a;")
+        self.make_default = QPushButton("Use as default for new folders")
+        self.make_default.setToolTip("A jobs file from a folder never planned before starts "
+                                     "with these depot, day, turnaround, speed and road "
+                                     "factor settings")
+        self.make_default.clicked.connect(self.default_requested)
         self.notes = QLabel("")
         self.notes.setWordWrap(True)
         self.notes.setStyleSheet("color: #6a5420;")
         form = QFormLayout()
         form.setFieldGrowthPolicy(QFormLayout.FieldGrowthPolicy.AllNonFixedFieldsGrow)
         form.addRow("Jobs", self.jobs_file)
+        form.addRow("Plan date", self.plan_date)
         form.addRow("Sites", self.sites_row)
         form.addRow("Travel times", self.travel_row)
         form.addRow("Turnaround", self.turnaround)
@@ -203,9 +226,13 @@ class InputsPanel(QWidget):
         form.addRow("Average speed", self.speed)
         form.addRow("Road factor", self.circuity)
         form.addRow("Vehicles available", self.vehicles)
+        remembered = QHBoxLayout()
+        remembered.addWidget(self.origin, 1)
+        remembered.addWidget(self.make_default, 0, Qt.AlignmentFlag.AlignTop)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(8, 8, 8, 8)
         layout.addLayout(form)
+        layout.addLayout(remembered)
         layout.addWidget(self.notes)
         layout.addStretch(1)
         self.turnaround.valueChanged.connect(self._turnaround_changed)
@@ -213,6 +240,7 @@ class InputsPanel(QWidget):
         self.day_start.editingFinished.connect(lambda: self._clock_changed("day_start"))
         self.day_end.editingFinished.connect(lambda: self._clock_changed("day_end"))
         self.max_day.editingFinished.connect(self._max_day_changed)
+        self.plan_date.editingFinished.connect(self._plan_date_changed)
         self.speed.valueChanged.connect(self._speed_changed)
         self.circuity.valueChanged.connect(self._circuity_changed)
         self.vehicles.changed.connect(self._vehicles_changed)
@@ -242,11 +270,19 @@ class InputsPanel(QWidget):
             self.speed.setValue(s.speed_kmh)
             self.circuity.setValue(s.circuity)
             self.vehicles.show_limits(s, sorted({j.vehicle_class for j in document.jobs}))
+            self._plan_date = document.plan_date
+            self.plan_date.setText(document.plan_date.isoformat() if document.plan_date else "")
         finally:
             self._loading = False
 
     def show_notes(self, warnings: tuple[str, ...]) -> None:
-        self.notes.setText("\n".join(f"Note: {w}." for w in warnings))
+        """The day's warnings, each cut to a few lines (all of it in the tooltip)."""
+        self.notes.setText("\n".join(f"Note: {_short(w)}" for w in warnings))
+        self.notes.setToolTip("\n\n".join(warnings))
+
+    def show_origin(self, text: str) -> None:
+        """Where the day settings shown come from (a folder's last day, the default…)."""
+        self.origin.setText(text[:1].upper() + text[1:] + "." if text else "")
 
     # ------------------------------------------------------------ editing
     def _emit(self, text: str, **changes) -> None:
@@ -280,6 +316,22 @@ class InputsPanel(QWidget):
             text = "Set vehicles available to " + ", ".join(
                 f"{c or '(no class)'} {k}" for c, k in per_class)
         self._emit(text, vehicles=total, class_vehicles=per_class)
+
+    def _plan_date_changed(self) -> None:
+        if self._loading:
+            return
+        text = self.plan_date.text().strip()
+        try:
+            value = date.fromisoformat(text) if text else None
+        except ValueError:
+            self.plan_date.setText(self._plan_date.isoformat() if self._plan_date else "")
+            self.settings_refused.emit(f"The plan date was not changed: '{text}' is not a "
+                                       "date; type it like 2026-12-02")
+            return
+        if value != self._plan_date:
+            self._plan_date = value
+            self.plan_date_edited.emit(value, f"Set plan date to {value.isoformat()}" if value
+                                       else "Clear plan date")
 
     def _clock_changed(self, name: str) -> None:
         if self._loading:

@@ -18,7 +18,7 @@ from functools import partial
 
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, QTimer, Signal
 
-from shipgui.core import Cancelled, Day, InputError, Plan, solve_day
+from shipgui.core import Cancelled, Day, InputError, Plan, Problem, solve_day
 from shipgui.core.day import build_inputs
 from shipgui.core.document import DayDocument
 
@@ -82,7 +82,9 @@ class SolveWorker(QRunnable):
         except Cancelled:
             signals.errored.emit(g, "cancelled", None)
         except InputError as exc:
-            signals.errored.emit(g, "input", list(exc.problems))
+            more = getattr(exc, "more", 0)
+            signals.errored.emit(g, "input", list(exc.problems) + (
+                [Problem(f"… and {more} more problems (fix these first)")] if more else []))
         except Exception as exc:  # noqa: BLE001 - reported to the user, never raised here
             signals.errored.emit(g, "failure", (f"{type(exc).__name__}: {exc}",
                                                 traceback.format_exc()))
