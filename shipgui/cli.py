@@ -21,9 +21,11 @@ from shipgui import __version__
 from shipgui.core import InputError, Settings, format_clock, format_minutes, solve_day
 from shipgui.core.caution import CAUTION
 from shipgui.core.clock import (
+    NUMBER_FORMS,
     format_day_clock,
     format_duration,
     parse_clock,
+    parse_decimal,
     parse_length,
     parse_minutes,
 )
@@ -72,10 +74,11 @@ CERTIFICATE_IDS_SHOWN = 30
 def _number(option: str, low: float, high: float):
     """An argparse type: a finite number in [low, high], else exit 2 naming the range."""
     def parse(text: str) -> float:
-        try:
-            value = float(text)
+        try:  # the one number form of the input files: 12.5 or 12,5
+            value = float(parse_decimal(text))
         except ValueError:
-            value = math.nan
+            raise argparse.ArgumentTypeError(f"'{text}' is not a number ({NUMBER_FORMS})") \
+                from None
         if not (math.isfinite(value) and low <= value <= high):
             raise argparse.ArgumentTypeError(f"'{text}' is not a number from {low:g} to "
                                              f"{high:g}")
