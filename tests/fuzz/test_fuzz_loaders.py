@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import csv
 import io
+import json
 import os
 import tempfile
 from datetime import datetime, time, timedelta
@@ -211,3 +212,139 @@ def test_xlsx_days_load_or_give_an_input_error(workbook, sheet):
         assert exc.problems and all(p.file == str(path) for p in exc.problems if p.file)
         return
     check_day(day)
+
+
+# ------------------------------------------------------------------ wide headers
+@FUZZ
+@given(data=st.data())
+def test_wide_headers_load_like_narrow_ones(data):
+    """Empty header columns (trailing or between), and stray values under them, change
+    nothing: the day reads as the same file without them."""
+    rows = data.draw(table(job_cells, ["job", "origin", "start", "end"]))
+    gap = data.draw(st.integers(1, 3000))
+    stray = st.text(st.characters(blacklist_categories=("Cc", "Cs")), max_size=8)
+    wide = [rows[0] + [""] * gap] + [r + [""] * data.draw(st.integers(0, 3)) + [junk]
+                                     for r, junk in zip(rows[1:], data.draw(st.lists(
+                                         stray, min_size=len(rows) - 1,
+                                         max_size=len(rows) - 1)))]
+    narrow_day = _outcome(write("narrow.csv", _csv(rows)))
+    wide_day = _outcome(write("wide.csv", _csv(wide)))
+    assert narrow_day == wide_day
+
+
+def _csv(rows: list[list[str]]) -> bytes:
+    out = io.StringIO()
+    csv.writer(out, lineterminator="\n", quoting=csv.QUOTE_ALL).writerows(rows)
+    return out.getvalue().encode("utf-8")
+
+
+def _outcome(path: Path):
+    """The jobs read, or the problems (without the file name), for comparing files."""
+    try:
+        return [(j.id, j.start, j.end) for j in load_day(path).jobs]
+    except InputError as exc:
+        return [(p.row, p.column, p.message) for p in exc.problems]
+
+
+# ------------------------------------------------------------------ plan files
+json_leaf = st.one_of(
+    st.none(), st.booleans(), st.integers(-10**6, 10**6),
+    st.sampled_from([10**400, -10**400, 0.5, 1e308, float("inf"), float("nan"), 2**63]),
+    st.floats(), st.text(max_size=12),
+    st.sampled_from(["\ud800", "J\udc00", "a\x00b", "\x1b[2J", "J\u200b1", "\uff2a1", "",
+                     "08:00", "25:30", "2026-12-02T08:00", "x" * 20_000]))
+plan_job = st.fixed_dictionaries(
+    {"job": st.one_of(st.sampled_from(["J1", "J2", "J1"]), json_leaf),
+     "origin": st.one_of(st.sampled_from(SITES), json_leaf),
+     "start": st.one_of(clock_texts, json_leaf), "end": st.one_of(clock_texts, json_leaf)},
+    optional={"destination": st.one_of(st.sampled_from(SITES), json_leaf),
+              "notes": json_leaf, "vehicle_class": json_leaf, "row": json_leaf})
+plan_site = st.fixed_dictionaries(
+    {"site": st.one_of(st.sampled_from(SITES), json_leaf)},
+    optional={"x_km": json_leaf, "y_km": json_leaf, "lat": json_leaf, "lon": json_leaf,
+              "name": json_leaf})
+plan_travel = st.fixed_dictionaries(
+    {"from": st.one_of(st.sampled_from(SITES), json_leaf),
+     "to": st.one_of(st.sampled_from(SITES), json_leaf),
+     "seconds": st.one_of(st.integers(0, 7200), json_leaf)})
+plan_settings = st.fixed_dictionaries(
+    {}, optional={"turnaround_seconds": json_leaf, "depot": json_leaf,
+                  "day_start": st.one_of(clock_texts, json_leaf),
+                  "day_end": st.one_of(clock_texts, json_leaf), "speed_kmh": json_leaf,
+                  "circuity": json_leaf})
+plan_documents = st.fixed_dictionaries(
+    {"format": st.sampled_from(["shipgui-plan", "shipgui-plan", "other"]),
+     "schema_version": st.one_of(st.just(1), st.just(1), json_leaf),
+     "inputs": st.fixed_dictionaries({"jobs": st.lists(plan_job, max_size=5)},
+                                     optional={"sites": st.lists(plan_site, max_size=4),
+                                               "travel": st.lists(plan_travel, max_size=4)})},
+    optional={"settings": plan_settings, "plan_date": json_leaf,
+              "driver_names": st.dictionaries(st.text(max_size=3), json_leaf, max_size=3),
+              "sources": st.dictionaries(st.sampled_from(["jobs", "sites", "\ud800"]),
+                                         json_leaf, max_size=3)})
+
+
+@FUZZ
+@given(document=plan_documents, bom=st.booleans())
+def test_plan_files_open_and_save_again_or_give_an_input_error(document, bom):
+    """A plan file either opens (and then saves again, builds a day or names the
+    problem) or is refused with an InputError naming the file; never anything else.
+    Before: huge numbers raised OverflowError, lone surrogates opened and then made
+    every save fail."""
+    from shipgui.core.day import build_inputs
+    from shipgui.core.io.plan_file import plan_file_bytes, read_plan_file
+    text = json.dumps(document, ensure_ascii=True)  # "\ud800" escapes, as a file holds them
+    path = write("day.shipgui", (b"\xef\xbb\xbf" if bom else b"") + text.encode("utf-8"))
+    try:
+        inputs = read_plan_file(path)
+    except InputError as exc:
+        assert exc.problems and all(p.file in (None, str(path)) for p in exc.problems)
+        assert len(exc.problems) <= 50
+        return
+    plan_file_bytes(inputs).decode("utf-8")  # saving can never fail on the text
+    try:
+        check_day(build_inputs(inputs))
+    except InputError as exc:
+        assert exc.problems
+
+
+# ------------------------------------------------------------------ one validation
+cell_texts = st.one_of(
+    st.text(max_size=8),
+    st.builds(lambda a, c, b: a + c + b, st.text(max_size=3),
+              st.sampled_from(["\n", "\r", "\t", "\x00", "\x1b", "\x7f", "\x85", "\u200b",
+                               "\ufeff", "\u00a0", "\u2028", "\u3000", "\uff2a"]),
+              st.text(max_size=3)),
+    st.sampled_from(["J" * 100, "J" * 101, " J1 ", "J1", "\uff2a1"]))
+
+
+@FUZZ
+@given(value=cell_texts, field=st.sampled_from(["job", "origin", "notes", "vehicle_class"]))
+def test_files_plan_files_and_cell_edits_accept_the_same_values(value, field):
+    """A value a jobs CSV accepts, a plan file and a cell edit accept too (the same
+    text stored), and what one refuses the others refuse."""
+    from shipgui.core import Job
+    from shipgui.core.document import DayDocument
+    from shipgui.core.io.plan_file import read_plan_file
+    from shipgui.core.io.readers import read_jobs
+    name = "id" if field == "job" else field
+    record = {"job": "J9", "origin": "A", "start": "07:00", "end": "08:00", field: value}
+    out = io.StringIO()
+    csv.writer(out, lineterminator="\n", quoting=csv.QUOTE_ALL).writerows(
+        [list(record), list(record.values())])
+    plan = {"format": "shipgui-plan", "schema_version": 1, "inputs": {"jobs": [record]}}
+    readers = (
+        lambda: read_jobs(write("one.csv", out.getvalue().encode("utf-8")))[0][0],
+        lambda: read_plan_file(write("one.shipgui", json.dumps(plan).encode("utf-8"))).jobs[0])
+    outcomes = []
+    for read in readers:
+        try:
+            outcomes.append(getattr(read(), name))
+        except InputError:
+            outcomes.append(None)
+    document = DayDocument([Job("J9", "A", "A", 7 * 3600, 8 * 3600)])
+    try:
+        outcomes.append(document.checked_value(0, name, value))
+    except ValueError:
+        outcomes.append(None)
+    assert outcomes[0] == outcomes[1] == outcomes[2], outcomes
