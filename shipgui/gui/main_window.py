@@ -21,6 +21,7 @@ from shipgui.core import Job, Plan, Problem
 from shipgui.core.caution import CAUTION
 from shipgui.core.document import Change, DayDocument
 from shipgui.core.drivers import DriverPlace, names_by_vehicle
+from shipgui.core.io.validation import check_text
 
 from .actions import make_action, themed_icon
 from .file_actions import FileActions
@@ -436,8 +437,14 @@ class MainWindow(QMainWindow):
         old = current.name if current else ""
         name, ok = QInputDialog.getText(self, "Driver", f"Driver of vehicle {vehicle}:",
                                         text=old)
-        name = name.strip()
-        if ok and (name != old or (current is not None and current.jobs != jobs)):
+        if not ok:
+            return
+        try:
+            name = check_text(name)  # the rules of every other value of the day
+        except ValueError as exc:
+            self._refuse(f"The driver's name was not changed: {exc}")
+            return
+        if name != old or (current is not None and current.jobs != jobs):
             self.undo_stack.push(NameDriver(self.document, vehicle, jobs, current, name))
 
     def show_proof(self, on: bool) -> None:

@@ -275,3 +275,11 @@ def test_shortened_travel_times_are_listed_under_the_answer(qtbot, window):
     [note] = box.list.problem_texts()
     assert note.startswith("travel.csv, row 7, column 'minutes': A -> C: 180 min given, "
                            "17.3 min used")
+
+
+def test_a_drivers_name_follows_the_rules_of_the_day_files(qtbot, small_window, monkeypatch):
+    from PySide6.QtWidgets import QInputDialog
+    monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("Ada\x1b[2J", True))
+    small_window.ask_driver_name(1)
+    assert small_window.document.driver_names == {}
+    assert "control character" in small_window.jobs_panel.message.text()
