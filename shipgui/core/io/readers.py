@@ -263,7 +263,7 @@ def _finish_job(table: Table, raw: _RawJob, plan_date: date | None,
               customer=rec.get("customer", ""), reference=rec.get("reference", ""),
               notes=rec.get("notes", ""), row=raw.row, priority=raw.priority,
               movable=raw.movable)
-    problems = check_job(job)
+    problems = check_job(job, texts=False)  # _cells checked every value's text
     for column, message in problems:
         if column == "end" and not rec.get("end"):
             column = "duration"  # the end was worked out from the duration

@@ -43,14 +43,11 @@ ID_COLUMNS = frozenset({"job", "origin", "destination", "vehicle_class", "site",
 
 # C0 and C1 controls (Unicode category Cc) and the surrogate block (Cs): the
 # same test as unicodedata.category, as one fast scan.
-_CONTROL = re.compile("[\x00-\x1f\x7f-\x9f]")
-_SURROGATE = re.compile("[\ud800-\udfff]")
+_UNSTORABLE = re.compile("[\x00-\x1f\x7f-\x9f\ud800-\udfff]")
 
 
 def _invisible(text: str) -> str | None:
     """The first character of an id that shows as nothing or as a plain space."""
-    if text.isascii():
-        return None
     for ch in text:
         category = unicodedata.category(ch)
         if category == "Cf" or (category.startswith("Z") and ch != " "):
@@ -66,13 +63,14 @@ def check_text(text: str, *, id_like: bool = False) -> str:
         kind = "an id" if id_like else "a planning value"
         raise ValueError(f"the value is {len(text)} characters long; over {limit} is not "
                          f"{kind}")
-    if _SURROGATE.search(text):
-        raise ValueError("the value holds a broken character (half of a UTF-16 pair, which "
-                         "no file can store); retype it")
-    if _CONTROL.search(text):
+    bad = _UNSTORABLE.search(text)
+    if bad is not None:
+        if "\ud800" <= bad.group() <= "\udfff":
+            raise ValueError("the value holds a broken character (half of a UTF-16 pair, "
+                             "which no file can store); retype it")
         raise ValueError("the value holds a control character (a hidden, non-printing "
                          "character such as a line break, tab or escape); retype it")
-    if id_like:
+    if id_like and not text.isascii():
         ch = _invisible(text)
         if ch is not None:
             raise ValueError(f"the id holds an invisible character (U+{ord(ch):04X}) that "
@@ -87,14 +85,16 @@ def class_key(vehicle_class: str) -> str:
 
 # ------------------------------------------------------------------------ jobs
 
-def check_job(job: Job) -> list[tuple[str, str]]:
+def check_job(job: Job, *, texts: bool = True) -> list[tuple[str, str]]:
     """(column, sentence) for every rule ``job`` breaks on its own; [] if none.
 
-    Text fields, required ids, times within the plan day and the night after,
-    and an end after the start.  Ids against other jobs: :class:`IdRegister`.
+    Text fields (skipped with ``texts=False`` when every value was put through
+    :func:`check_text` already), required ids, times within the plan day and the
+    night after, and an end after the start.  Ids against other jobs:
+    :class:`IdRegister`.
     """
     problems = []
-    for column, attribute in JOB_COLUMNS.items():
+    for column, attribute in JOB_COLUMNS.items() if texts else ():
         try:
             check_text(getattr(job, attribute), id_like=column in ID_COLUMNS)
         except ValueError as exc:
