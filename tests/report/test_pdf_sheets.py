@@ -13,6 +13,7 @@ import pytest
 from shipgui.core import Settings, solve_day
 from shipgui.core.clock import format_duration
 from shipgui.core.fleet.schedule import vehicle_days
+from shipgui.core.io.validation import MAX_FIELD_CHARS, MAX_ID_CHARS
 from shipgui.core.model import Job, Site
 from shipgui.report import PrintLayoutError, build_pdf_bytes
 from shipgui.report import text as report_text
@@ -132,13 +133,14 @@ def test_proof_at_a_glance_with_nearest_misses():
 @pytest.mark.parametrize("spaces", [False, True])
 def test_values_at_the_length_limit_print_cut_on_every_page(spaces):
     def big(seed: str) -> str:
-        return (f"{seed} word " * 2000)[:10_000] if spaces else seed * 10_000
+        return (f"{seed} word " * 2000)[:MAX_FIELD_CHARS] if spaces else seed * MAX_FIELD_CHARS
 
-    sites = [Site("Y" * 10_000, big("yard"), big("addr"), contact=big("c"), phone=big("p"),
-                  opening_hours=big("o"), access_notes=big("n")),
+    # Ids (site, job, vehicle class) have their own, shorter limit.
+    sites = [Site("Y" * MAX_ID_CHARS, big("yard"), big("addr"), contact=big("c"),
+                  phone=big("p"), opening_hours=big("o"), access_notes=big("n")),
              Site("A", big("mill"), big("lane"))]
-    jobs = [Job(("J" * 9_999) + str(k), sites[0].id, "A", (8 + 2 * k) * HOUR,
-                (9 + 2 * k) * HOUR, vehicle_class="c" * 10_000, customer=big("cust"),
+    jobs = [Job(("J" * (MAX_ID_CHARS - 1)) + str(k), sites[0].id, "A", (8 + 2 * k) * HOUR,
+                (9 + 2 * k) * HOUR, vehicle_class="c" * MAX_ID_CHARS, customer=big("cust"),
                 reference=big("ref"), notes=big("note")) for k in range(2)]
     travel = {(sites[0].id, "A"): 30, ("A", sites[0].id): 30}
     day = make_day(jobs, sites, travel, settings=Settings(depot=sites[0].id, turnaround=0))
