@@ -18,7 +18,7 @@ from pathlib import Path
 
 import numpy as np
 
-from .clock import format_clock_or_none, format_duration, format_minutes
+from .clock import format_day_clock, format_duration, format_minutes
 from .errors import InputError, Problem, ProblemCollector
 from .io.readers import read_inputs
 from .io.validation import check_settings, class_key
@@ -136,8 +136,9 @@ def settings_text(settings: Settings) -> str:
     s = settings
     parts = [f"depot {s.depot}" if s.depot else "no depot"]
     if s.depot and (s.day_start is not None or s.day_end is not None):
-        parts.append(f"day {format_clock_or_none(s.day_start) or 'open'}"
-                     f"–{format_clock_or_none(s.day_end) or 'open'}")
+        start, end = (format_day_clock(t) if t is not None else "open"
+                      for t in (s.day_start, s.day_end))
+        parts.append(f"day {start}–{end}")
     parts.append(f"turnaround {format_minutes(s.turnaround)} min")
     if s.max_day is not None:
         parts.append(f"working day at most {format_duration(s.max_day)}")

@@ -79,6 +79,8 @@ class ProblemList(QTableWidget):
         for column in range(_MESSAGE):
             header.setSectionResizeMode(column, QHeaderView.ResizeMode.ResizeToContents)
         header.setSectionResizeMode(_MESSAGE, QHeaderView.ResizeMode.Stretch)
+        # Wrapped messages need their rows measured again once the width is known.
+        header.sectionResized.connect(lambda *_: self.resizeRowsToContents())
 
     def set_problems(self, problems: list[Problem], more: int = 0) -> None:
         """Show ``problems``; ``more`` left out ones are counted in a last row."""
