@@ -55,7 +55,7 @@ class _FileRow(QWidget):
         self.name.setWordWrap(True)
         self.name.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
         self.attach = QPushButton("Attach…")
-        self.attach.setToolTip(f"Use a {kind} file (CSV) with this day")
+        self.attach.setToolTip(f"Use a {kind} file (CSV or Excel workbook) with this day")
         self.remove = QPushButton("Remove")
         self.attach.clicked.connect(lambda: panel.attach_requested.emit(kind))
         self.remove.clicked.connect(lambda: panel.remove_requested.emit(kind))
