@@ -11,6 +11,7 @@ from __future__ import annotations
 import difflib
 import hashlib
 import math
+import unicodedata
 from collections.abc import Mapping
 from dataclasses import dataclass, replace
 from datetime import date
@@ -253,8 +254,10 @@ def _report_unknown_sites(pairs: list[tuple[str, str]], by_id: dict[str, Site],
 
 
 def _did_you_mean(name: str, candidates: list[str]) -> str:
-    folded = {c.casefold().strip(): c for c in candidates}
-    match = folded.get(name.casefold().strip())
+    def fold(text: str) -> str:  # "ｙａｒｄ " and "Yard" are spelled alike
+        return unicodedata.normalize("NFKC", text).casefold().strip()
+    folded = {fold(c): c for c in candidates}
+    match = folded.get(fold(name))
     if match is None:
         close = difflib.get_close_matches(name, candidates, n=1, cutoff=0.75)
         match = close[0] if close else None
