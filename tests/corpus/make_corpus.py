@@ -247,6 +247,8 @@ ENTRIES: list[Entry] = [
                      "notes": "\ud800"}])),
     ("plan_surrogate_driver.shipgui", "plan", "", "", "driver_names.1", "broken character",
      lambda: _plan(driver_names={"1": "\udc41na"})),
+    ("plan_surrogate_driver_name.shipgui", "plan", "", "1", "name", "broken character",
+     lambda: _plan(drivers=[{"name": "Ada \ud83d", "jobs": ["J1"]}])),
     ("plan_control_id.shipgui", "plan", "", "1", "job", "control character",
      lambda: _plan([{"job": "J1\x1b[2J", "origin": "A", "start": "08:00", "end": "09:00"}])),
     ("plan_huge_id.shipgui", "plan", "", "1", "job", "not an id",

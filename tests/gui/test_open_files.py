@@ -20,8 +20,8 @@ from shipgui.gui import file_actions
 from shipgui.gui.app import run
 from shipgui.gui.main_window import MainWindow
 from shipgui.gui.services.settings import AppSettings
-
-from .conftest import WAIT_MS, load_and_wait, small_document
+from tests.support.documents import small_document
+from tests.support.gui import WAIT_MS, load_and_wait
 
 JOBS = [["job", "origin", "destination", "start", "end", "vehicle_class"],
         ["K1", "P", "Q", "08:00", "09:00", "van"], ["K2", "Q", "P", "09:30", "10:00", "Van "]]
@@ -281,5 +281,5 @@ def test_a_drivers_name_follows_the_rules_of_the_day_files(qtbot, small_window, 
     from PySide6.QtWidgets import QInputDialog
     monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("Ada\x1b[2J", True))
     small_window.ask_driver_name(1)
-    assert small_window.document.driver_names == {}
+    assert not small_window.document.drivers
     assert "control character" in small_window.jobs_panel.message.text()
