@@ -172,7 +172,23 @@ class ProblemBox(QWidget):
     def _fold(self, opened: bool) -> None:
         self.toggle.setText("Hide the list" if opened else "Show the list")
         self.list.setVisible(opened)
-        self.setMaximumHeight(16_777_215 if opened else self.sizeHint().height())
+        self._limit_height()
+
+    def _limit_height(self) -> None:
+        """Folded, the box is as tall as its heading at the current width (which
+        a splitter may change), so the heading is never cut off."""
+        if self.list.isVisible() or self.toggle.isHidden():
+            self.setMaximumHeight(16_777_215)
+            return
+        m = self.layout().contentsMargins()
+        room = self.width() - self.toggle.sizeHint().width() - m.left() - m.right() - 12
+        text = self.heading.heightForWidth(max(room, 50))
+        self.setMaximumHeight(max(text, self.toggle.sizeHint().height()) + m.top()
+                              + m.bottom())
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        self._limit_height()
 
     def _clicked(self, row: int, _column: int) -> None:
         problem = self.list.problem(row)
