@@ -55,6 +55,12 @@ def test_one_spelling_gives_no_warning(tmp_path):
     assert not any("vehicle class" in w for w in day.warnings)
 
 
+def test_vehicles_per_class_follow_the_class_as_the_jobs_spell_it(tmp_path):
+    text = JOBS + "J1,A,A,07:00,08:00,Reefer\nJ2,A,A,07:30,09:00,reefer \n"
+    day = _load(tmp_path, text, class_vehicles=(("REEFER", 2),))
+    assert day.settings.class_vehicles == (("Reefer", 2),)
+
+
 # ------------------------------------------------------------- unknown sites
 
 def test_a_mistyped_site_names_every_job_that_uses_it(tmp_path):
@@ -161,6 +167,21 @@ def test_number_forms_are_refused_the_same_everywhere(tmp_path, text):
             read_day_file(_write(tmp_path, f"{kind}.csv", content))
         messages.append(_problems(info)[0].message)
     assert all("write numbers like 12.5 or 12,5" in m for m in messages)
+
+
+@pytest.mark.parametrize("text, value", [("2,5", 2.5), ("0.5", 0.5), ("1_000", None),
+                                         ("1.000,5", None), ("inf", None)])
+def test_a_priority_is_read_like_every_other_number(tmp_path, text, value):
+    path = _write(tmp_path, "jobs.csv",
+                  f'job,origin,start,end,priority\nJ1,A,07:00,08:00,"{text}"\n')
+    doc = small_document()
+    if value is None:
+        with pytest.raises(InputError):
+            read_jobs(path)
+        with pytest.raises(ValueError, match="12.5 or 12,5"):
+            doc.checked_value(0, "priority", text)
+    else:
+        assert read_jobs(path)[0][0].priority == value == doc.checked_value(0, "priority", text)
 
 
 # ------------------------------------------------------------- shortened travel

@@ -209,6 +209,14 @@ def test_day_settings_are_remembered_per_folder(qtbot, tmp_path, app_settings):
         w.close()
 
 
+def test_the_vehicles_available_are_not_carried_to_the_next_day(tmp_path, app_settings):
+    # A limit carried over silently would leave jobs of another day unserved.
+    app_settings.remember_day_settings(tmp_path, Settings(depot="P", vehicles=3,
+                                                          class_vehicles=(("van", 2),)))
+    settings, origin = app_settings.day_settings_for(tmp_path)
+    assert settings == Settings(depot="P") and origin == "folder"
+
+
 def test_a_default_for_new_folders(qtbot, tmp_path, app_settings):
     window = MainWindow(app_settings, solve_delay_ms=0)
     load_and_wait(qtbot, window, small_document())
