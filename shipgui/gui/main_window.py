@@ -32,7 +32,7 @@ from .panels.certificate_panel import CertificatePanel
 from .panels.export_progress import ExportProgress
 from .panels.inputs_panel import InputsPanel
 from .panels.jobs_panel import JobsPanel
-from .panels.problems import ProblemBox, shortened_heading, shortened_notes
+from .panels.problems import ProblemBox
 from .panels.timeline import TimelineView
 from .recovery import offer_recovery
 from .services.autosave import Autosaver, Recovery
@@ -240,7 +240,6 @@ class MainWindow(QMainWindow):
         self.fleet.job_selected.connect(self.jobs_panel.select_job)
         self.fleet.moves_shown.connect(self.timeline.set_moves)
         self.problem_box.problem_clicked.connect(self._on_problem_clicked)
-        self.problem_box.toggle.toggled.connect(self._on_notes_opened)
         self.solver.busy_changed.connect(self._on_busy)
         self.solver.stage_changed.connect(lambda text: self.answer.set_busy(True, text))
         self.solver.plan_ready.connect(self._on_plan)
@@ -341,11 +340,7 @@ class MainWindow(QMainWindow):
 
     def _on_plan(self, plan: Plan, seconds: float) -> None:
         self.plan, self.plan_is_current, self.problems = plan, True, []
-        notes = shortened_notes(plan.day)
-        if notes:
-            self.problem_box.show_notes(shortened_heading(plan.day), notes)
-        else:
-            self.problem_box.setVisible(False)
+        self.problem_box.show_shortened(plan.day)  # hidden when there are none
         self.answer.show_plan(plan, seconds)
         self._show_drivers(plan)
         self.certificate.set_plan(plan)
@@ -457,12 +452,6 @@ class MainWindow(QMainWindow):
     def _on_pair(self, first: str, second: str) -> None:
         self.jobs_panel.select_job(first)
         self.timeline.select_jobs([first, second])
-
-    def _on_notes_opened(self, opened: bool) -> None:
-        if opened:  # room for a few rows of the list
-            sizes = self.right_splitter.sizes()
-            room = min(220, sum(sizes[:2]) // 2)
-            self.right_splitter.setSizes([room, sum(sizes[:2]) - room, *sizes[2:]])
 
     def _on_problem_clicked(self, problem: Problem) -> None:
         """Select the job a problem is about (by its id, else by its row in the jobs file)."""

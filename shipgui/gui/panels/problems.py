@@ -12,6 +12,7 @@ from PySide6.QtWidgets import (
     QHBoxLayout,
     QHeaderView,
     QLabel,
+    QSplitter,
     QTableWidget,
     QTableWidgetItem,
     QToolButton,
@@ -169,10 +170,25 @@ class ProblemBox(QWidget):
         self._fold(False)
         self.setVisible(True)
 
+    def show_shortened(self, day: Day) -> None:
+        """The travel times the closure shortened, as notes; hidden when none."""
+        notes = shortened_notes(day)
+        if notes:
+            self.show_notes(shortened_heading(day), notes)
+        else:
+            self.setVisible(False)
+
     def _fold(self, opened: bool) -> None:
         self.toggle.setText("Hide the list" if opened else "Show the list")
         self.list.setVisible(opened)
         self._limit_height()
+        splitter = self.parentWidget()
+        if opened and isinstance(splitter, QSplitter):  # room for a few rows
+            sizes = splitter.sizes()
+            mine = splitter.indexOf(self)
+            if mine == 0 and len(sizes) > 1:
+                room = min(220, (sizes[0] + sizes[1]) // 2)
+                splitter.setSizes([room, sizes[0] + sizes[1] - room, *sizes[2:]])
 
     def _limit_height(self) -> None:
         """Folded, the box is as tall as its heading at the current width (which
