@@ -446,8 +446,10 @@ class MainWindow(QMainWindow):
         self.certificate.setVisible(on)
         self.timeline.set_certificate_highlight(on)
         if on:
-            self.right_splitter.setSizes([0 if not self.problem_box.isVisible() else 120,
-                                          380, 260])
+            sizes = self.right_splitter.sizes()
+            rest = sum(sizes[1:])
+            self.right_splitter.setSizes([sizes[0], rest * 3 // 5, sizes[2],
+                                          rest * 2 // 5 - sizes[2]])
 
     def _on_pair(self, first: str, second: str) -> None:
         self.jobs_panel.select_job(first)

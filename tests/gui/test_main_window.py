@@ -373,3 +373,21 @@ def test_day_start_and_end_show_their_whole_hint(small_window):
     for edit in (small_window.inputs_panel.day_start, small_window.inputs_panel.day_end):
         hint = edit.fontMetrics().horizontalAdvance(edit.placeholderText())
         assert edit.width() >= hint + 12  # frame and text margins of a line edit
+
+
+def test_folded_notes_leave_no_empty_band_above_the_timeline(qtbot, window):
+    # The demo's 76 shortened travel times are a folded note: the box above the
+    # timeline is as tall as its heading, and the splitter gives it no more.
+    from shipgui.core.demo import DEMO_SETTINGS, demo_files
+    from shipgui.core.document import DayDocument
+    from shipgui.core.io.readers import read_inputs
+    from tests.support.gui import load_and_wait
+    files = demo_files()
+    window.resize(1400, 860)
+    window.show()
+    load_and_wait(qtbot, window, DayDocument.from_inputs(read_inputs(
+        files["jobs"], files["sites"], files["travel"], settings=DEMO_SETTINGS)))
+    qtbot.wait(50)
+    box = window.problem_box
+    assert box.isVisible() and box.list.isHidden()
+    assert window.right_splitter.sizes()[0] == box.height() < 80

@@ -193,14 +193,21 @@ class ProblemBox(QWidget):
     def _limit_height(self) -> None:
         """Folded, the box is as tall as its heading at the current width (which
         a splitter may change), so the heading is never cut off."""
-        if self.list.isVisible() or self.toggle.isHidden():
+        if not self.list.isHidden() or self.toggle.isHidden():
+            self.setMinimumHeight(0)
             self.setMaximumHeight(16_777_215)
             return
         m = self.layout().contentsMargins()
         room = self.width() - self.toggle.sizeHint().width() - m.left() - m.right() - 12
         text = self.heading.heightForWidth(max(room, 50))
-        self.setMaximumHeight(max(text, self.toggle.sizeHint().height()) + m.top()
-                              + m.bottom())
+        height = max(text, self.toggle.sizeHint().height()) + m.top() + m.bottom()
+        self.setFixedHeight(height)
+        splitter = self.parentWidget()
+        if isinstance(splitter, QSplitter):  # hand the room it no longer needs on
+            sizes = splitter.sizes()
+            mine = splitter.indexOf(self)
+            if mine == 0 and len(sizes) > 1 and sizes[0] != height:
+                splitter.setSizes([height, sizes[1] + sizes[0] - height, *sizes[2:]])
 
     def resizeEvent(self, event) -> None:
         super().resizeEvent(event)
