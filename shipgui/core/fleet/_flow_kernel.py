@@ -16,14 +16,16 @@ are distance-like: the reduced cost of slot a from u to v is
   algorithm", J. Algorithms 22, 1997).  With costs multiplied by more than the
   number of nodes, a 1-optimal flow is optimal (Goldberg & Tarjan 1990, Thm 3.3
   in their numbering: epsilon < 1/n implies optimality for integer costs).
+* :func:`violated_links`: the pricing step, over every compatible (job,
+  group) pair without listing them.
 * :func:`tighten_prices`: queue relaxation until every residual arc has a
   non-negative reduced cost (exact LP duals of an optimal flow).
 * :func:`repair`: re-balance a few units after arcs were added, by primal-dual
   shortest paths from exact duals (Ahuja, Magnanti & Orlin, Network Flows,
-  1993, section 9.8).
-* :func:`cancel_one_unit`: one step of successive shortest paths in reverse:
-  take one unit off the flow from ``source`` to ``sink`` at least extra cost
-  (Dijkstra on reduced costs; Ahuja, Magnanti & Orlin 1993, section 9.7).
+  1993, section 9.8).  The trade-off uses it too: one unit of excess at the
+  sink and one of demand at the source take one unit off the flow along a
+  cheapest residual path, one step of successive shortest paths in reverse
+  (Ahuja, Magnanti & Orlin 1993, section 9.7).
 """
 
 from __future__ import annotations
@@ -36,13 +38,24 @@ from .._jit import jit
 
 # The residual network in CSR form; see the module docstring.
 Residual = namedtuple("Residual", "first head rev cost")
+# What the cost of linking group g before local job j is made of (seconds):
+# travel[group_site[g], origin[j]] - pin[g] - pout[j]; latest[j, g] is the
+# position the link leaves from (-1: no link), as in the prefix index.
+LinkCosts = namedtuple("LinkCosts", "latest group_site origin travel pin pout")
 # A binary min-heap of (key, node) pairs in two arrays.
 Heap = namedtuple("Heap", "keys nodes")
+# Nodes by distance: top[d] is the first node at distance d (-1: none); the
+# others follow by after[v] (before[v] goes back), -1 ending the list.
+Buckets = namedtuple("Buckets", "top after before")
 
 INF = np.int64(1) << np.int64(62)
+# What the long kernels return: done; the supplies cannot be routed; stopped
+# because ``stop[0]`` was set (from another thread: the kernels release the GIL).
+DONE, NO_ROUTE, STOPPED = 1, 0, -1
+STOP_CHECK = 1023  # a kernel looks at its stop flag every 1 024 relabels or searches
 
 
-@jit
+@jit(inline=True)
 def _heap_push(heap, size, key, node):
     """Binary min-heap of (key, node) pairs, ties by node (a deterministic order)."""
     keys, nodes = heap.keys, heap.nodes
@@ -59,7 +72,7 @@ def _heap_push(heap, size, key, node):
     return size + 1
 
 
-@jit
+@jit(inline=True)
 def _heap_pop(heap, size):
     """Remove the top of the heap (read it from keys[0], nodes[0] first)."""
     keys, nodes = heap.keys, heap.nodes
@@ -85,31 +98,40 @@ def _heap_pop(heap, size):
 
 
 @jit
-def update_prices(net, cap, price, excess, eps, dist, done, heap):
+def update_prices(net, cap, price, excess, eps, dist, done, buckets):
     """Global price update (Goldberg 1997, section 5): lower every price by eps
     times its distance to a node with a deficit, with arc lengths
     floor(reduced cost / eps) + 1.  Keeps eps-optimality and makes a shortest
-    admissible path from every excess to a deficit.  The search stops once
-    every node with an excess is reached; the rest count as that far away."""
+    admissible path from every excess to a deficit.
+
+    The lengths are small integers, so the search keeps one bucket of nodes per
+    distance (Dial, "Algorithm 360: shortest-path forest with topological
+    ordering", CACM 12(11), 1969) up to n; a node further away counts as far as
+    the last node settled, as does every node left when all nodes with an
+    excess are reached.
+    """
     first, head, rev, cost = net.first, net.head, net.rev, net.cost
     n = first.shape[0] - 1
-    size = 0
+    top_bucket = buckets.top
+    for d in range(n + 1):
+        top_bucket[d] = -1
     waiting = 0  # nodes with an excess not yet reached
     for v in range(n):
         done[v] = False
         dist[v] = INF
         if excess[v] < 0:
             dist[v] = 0
-            size = _heap_push(heap, size, np.int64(0), v)
+            _bucket_add(buckets, v, 0)
         elif excess[v] > 0:
             waiting += 1
-    top = np.int64(0)
-    while size > 0 and waiting > 0:
-        d = heap.keys[0]
-        w = heap.nodes[0]
-        size = _heap_pop(heap, size)
-        if done[w]:
+    top = 0
+    d = 0
+    while d <= n and waiting > 0:
+        w = top_bucket[d]
+        if w < 0:
+            d += 1
             continue
+        _bucket_remove(buckets, w, d)
         done[w] = True
         top = d
         if excess[w] > 0:
@@ -125,14 +147,37 @@ def update_prices(net, cap, price, excess, eps, dist, done, heap):
                 if step < 0:
                     step = 0
                 nd = d + step
-                if nd < dist[v]:
+                if nd < dist[v] and nd <= n:
+                    if dist[v] <= n:
+                        _bucket_remove(buckets, v, dist[v])
                     dist[v] = nd
-                    size = _heap_push(heap, size, nd, v)
+                    _bucket_add(buckets, v, nd)
     for v in range(n):
         price[v] -= eps * (dist[v] if done[v] else top)
 
 
-@jit
+@jit(inline=True)
+def _bucket_add(buckets, v, d):
+    top, after, before = buckets.top, buckets.after, buckets.before
+    after[v] = top[d]
+    before[v] = -1
+    if top[d] >= 0:
+        before[top[d]] = v
+    top[d] = v
+
+
+@jit(inline=True)
+def _bucket_remove(buckets, v, d):
+    top, after, before = buckets.top, buckets.after, buckets.before
+    if before[v] >= 0:
+        after[before[v]] = after[v]
+    else:
+        top[d] = after[v]
+    if after[v] >= 0:
+        before[after[v]] = before[v]
+
+
+@jit(inline=True)
 def _relabel(net, cap, price, u, eps):
     """Lower u's price just enough for one residual arc to become admissible
     (reduced cost -eps).  False if u has no residual arc at all."""
@@ -149,7 +194,7 @@ def _relabel(net, cap, price, u, eps):
     return True
 
 
-@jit
+@jit(inline=True)
 def _has_admissible(net, cap, price, current, v):
     """Advance v's current arc to its next admissible arc; False if none is left."""
     first, head, cost = net.first, net.head, net.cost
@@ -165,16 +210,17 @@ def _has_admissible(net, cap, price, current, v):
 
 
 @jit
-def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha):
+def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop):
     """Route all ``excess`` (supplies > 0, demands < 0; sums to zero) at least cost.
 
     ``cap``, ``excess`` and ``price`` are changed in place (excess ends all
     zero).  The start must be ``eps``-optimal for ``price`` (eps <= 0: the
     largest absolute cost, right for any start with zero prices).  The first
     phase divides eps by ``first_alpha``, the others by ``alpha``.  Returns
-    False when the supplies cannot be routed: then some price falls further
-    than a refine can move it when a routing exists (Goldberg & Tarjan 1990:
-    from an eps'-optimal start, by at most about (eps' + eps) * n).
+    DONE, or NO_ROUTE when the supplies cannot be routed: then some price
+    falls further than a refine can move it when a routing exists (Goldberg &
+    Tarjan 1990: from an eps'-optimal start, by at most about (eps' + eps) *
+    n), or STOPPED when ``stop[0]`` was set (the flow is then unusable).
     """
     first, head, rev, cost = net.first, net.head, net.rev, net.cost
     n = first.shape[0] - 1
@@ -183,8 +229,9 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha):
     in_queue = np.zeros(n, dtype=np.bool_)
     dist = np.empty(n, dtype=np.int64)
     done = np.empty(n, dtype=np.bool_)
-    heap = Heap(np.empty(cap.shape[0] + n + 1, dtype=np.int64),
-                np.empty(cap.shape[0] + n + 1, dtype=np.int64))
+    floor = np.empty(n, dtype=np.int64)
+    buckets = Buckets(np.empty(n + 1, dtype=np.int64), np.empty(n, dtype=np.int64),
+                      np.empty(n, dtype=np.int64))
     if eps <= 0:  # zero prices: any flow is eps-optimal for the largest |cost|
         eps = np.int64(1)
         for a in range(cost.shape[0]):
@@ -209,8 +256,9 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha):
                         excess[v] += d
                         cap[rev[a]] += d
                         cap[a] = 0
-        update_prices(net, cap, price, excess, eps, dist, done, heap)
-        floor = price - (start_eps + 2 * eps) * (n + 1)
+        update_prices(net, cap, price, excess, eps, dist, done, buckets)
+        for u in range(n):
+            floor[u] = price[u] - (start_eps + 2 * eps) * (n + 1)
         relabels = 0
         qh = 0
         size = 0
@@ -256,17 +304,19 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha):
                     current[u] = a
                     break
                 if not _relabel(net, cap, price, u, eps) or price[u] < floor[u]:
-                    return False
+                    return NO_ROUTE
                 current[u] = first[u]
                 relabels += 1
+                if relabels & STOP_CHECK == 0 and stop[0] != 0:
+                    return STOPPED
                 if relabels >= n:
-                    update_prices(net, cap, price, excess, eps, dist, done, heap)
+                    update_prices(net, cap, price, excess, eps, dist, done, buckets)
                     relabels = 0
                     for w in range(n):
                         current[w] = first[w]
         if eps == 1:
             break
-    return True
+    return DONE
 
 
 @jit
@@ -305,7 +355,7 @@ def tighten_prices(net, cap, price):
     return True
 
 
-@jit
+@jit(inline=True)
 def _dijkstra(net, cap, price, dist, via, heap, size, target, excess):
     """Dijkstra on reduced costs from the nodes already in the heap (``size``
     of them, their ``dist`` set), until it settles ``target`` or, when target
@@ -335,7 +385,7 @@ def _dijkstra(net, cap, price, dist, via, heap, size, target, excess):
     return -1
 
 
-@jit
+@jit(inline=True)
 def _raise_prices(price, dist, reach):
     """Add each node's distance, capped at ``reach``, to its price: reduced
     costs stay >= 0 and those on shortest paths become 0."""
@@ -344,45 +394,16 @@ def _raise_prices(price, dist, reach):
 
 
 @jit
-def cancel_one_unit(net, cap, price, source, sink):
-    """Send one unit from ``sink`` back to ``source`` along a cheapest residual path.
-
-    Needs reduced costs >= 0 on residual arcs (see :func:`tighten_prices`) and
-    keeps them so.  Returns the path's cost, or INF when there is no path.
-    """
-    first, head, rev, cost = net.first, net.head, net.rev, net.cost
-    n = first.shape[0] - 1
-    dist = np.full(n, INF, dtype=np.int64)
-    via = np.full(n, -1, dtype=np.int64)
-    heap = Heap(np.empty(cap.shape[0] + 1, dtype=np.int64),
-                np.empty(cap.shape[0] + 1, dtype=np.int64))
-    size = _heap_push(heap, 0, np.int64(0), sink)
-    dist[sink] = 0
-    no_excess = np.zeros(0, dtype=np.int64)  # not read: the search stops at source
-    if _dijkstra(net, cap, price, dist, via, heap, size, source, no_excess) < 0:
-        return INF
-    path_cost = np.int64(0)
-    v = source
-    while v != sink:
-        a = via[v]
-        cap[a] -= 1
-        cap[rev[a]] += 1
-        path_cost += cost[a]
-        v = head[rev[a]]
-    _raise_prices(price, dist, dist[source])
-    return path_cost
-
-
-@jit
-def repair(net, cap, price, excess):
+def repair(net, cap, price, excess, stop):
     """Route every excess to a deficit along shortest paths, in place.
 
     Primal-dual: a Dijkstra from all excesses to the nearest deficit updates
     the prices, then depth-first searches push as many units as they can along
     arcs of zero reduced cost (Ahuja, Magnanti & Orlin 1993, section 9.8).
     Needs reduced costs >= 0 on residual arcs and keeps them so, so the result
-    is optimal.  Cheap when few units are out of balance.  Returns False if
-    some excess cannot reach a deficit.
+    is optimal.  Cheap when few units are out of balance.  Returns DONE,
+    NO_ROUTE when some excess cannot reach a deficit, or STOPPED when
+    ``stop[0]`` was set.
     """
     first, head, rev, cost = net.first, net.head, net.rev, net.cost
     n = first.shape[0] - 1
@@ -396,6 +417,8 @@ def repair(net, cap, price, excess):
     heap = Heap(np.empty(cap.shape[0] + n + 1, dtype=np.int64),
                 np.empty(cap.shape[0] + n + 1, dtype=np.int64))
     while True:
+        if stop[0] != 0:
+            return STOPPED
         size = 0
         for v in range(n):
             dist[v] = INF
@@ -403,10 +426,10 @@ def repair(net, cap, price, excess):
                 dist[v] = 0
                 size = _heap_push(heap, size, np.int64(0), v)
         if size == 0:
-            return True
+            return DONE
         target = _dijkstra(net, cap, price, dist, via, heap, size, -1, excess)
         if target < 0:
-            return False
+            return NO_ROUTE
         _raise_prices(price, dist, dist[target])
         for v in range(n):
             current[v] = first[v]
@@ -457,3 +480,46 @@ def repair(net, cap, price, excess):
                 excess[t] += delta
                 for k in range(top + 1):
                     on_path[stack[k]] = False
+
+
+@jit(inline=True)
+def _link_reduced_cost(links, price, scale, m, j, g, q):
+    cost = links.travel[links.group_site[g], links.origin[j]] - links.pin[g] - links.pout[j]
+    return cost * scale + price[q] - price[m + j]
+
+
+@jit
+def violated_links(links, allowed, price, scale, margin_percent):
+    """Link arcs left out (``allowed`` false) whose reduced cost under ``price``
+    is negative: returns (largest violation, how many, keys j * G + g of those
+    and of the near misses within ``margin_percent`` of the largest).  Right
+    copy j is node m + j, as in the network; costs are multiplied by ``scale``."""
+    latest = links.latest
+    m, n_groups = latest.shape
+    worst = np.int64(0)
+    count = 0
+    for j in range(m):
+        for g in range(n_groups):
+            q = latest[j, g]
+            if q >= 0 and not allowed[j, g]:
+                rc = _link_reduced_cost(links, price, scale, m, j, g, q)
+                if rc < 0:
+                    count += 1
+                    if -rc > worst:
+                        worst = -rc
+    if count == 0:
+        return worst, count, np.empty(0, dtype=np.int64)
+    margin = worst * margin_percent // 100
+    taken = 0
+    for step in range(2):  # count, then fill
+        keys = np.empty(taken, dtype=np.int64)
+        taken = 0
+        for j in range(m):
+            for g in range(n_groups):
+                q = latest[j, g]
+                if q >= 0 and not allowed[j, g]:
+                    if _link_reduced_cost(links, price, scale, m, j, g, q) < margin:
+                        if step == 1:
+                            keys[taken] = j * n_groups + g
+                        taken += 1
+    return worst, count, keys

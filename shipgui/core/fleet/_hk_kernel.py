@@ -10,8 +10,10 @@ positions in every group, and the depth-first step keeps one pointer per
 (layer, group): every left copy is tried at most once per phase, so a phase
 costs O(m * G) without ever listing the edges.
 
-Every function is compiled by numba where it is defined (:mod:`.._jit`);
-with ``NUMBA_DISABLE_JIT=1`` or without numba they run as plain Python.
+The searches are compiled by numba where they are defined (:mod:`.._jit`);
+with ``NUMBA_DISABLE_JIT=1`` or without numba they run as plain Python.  The
+loop over phases stays in Python (a handful of calls): compiling it as well
+would double the first start's compile time of this module for nothing.
 """
 
 from __future__ import annotations
@@ -33,7 +35,6 @@ Links = namedtuple("Links", "succ pred")
 Fit = namedtuple("Fit", "ready_pos group_site travel origin right_order")
 
 
-@jit
 def hk_match(prefixes, links):
     """Grow the matching (succ[left] = right, pred[right] = left) to maximum, in place.
 
@@ -61,9 +62,10 @@ def _bfs(prefixes, links):
     n_groups = latest.shape[1]
     cap = 64
     bounds = np.empty((cap, n_groups), dtype=np.int64)
+    hi = np.empty(n_groups, dtype=np.int64)
     for g in range(n_groups):
         bounds[0, g] = group_start[g] - 1
-    hi = bounds[0].copy()
+        hi[g] = group_start[g] - 1
     reached_pos = np.zeros(m, dtype=np.bool_)
     reached_right = np.zeros(m, dtype=np.bool_)
     frontier = np.empty(m, dtype=np.int64)
@@ -79,9 +81,7 @@ def _bfs(prefixes, links):
     while size > 0 and not found:
         layer += 1
         if layer >= cap:
-            grown = np.empty((cap * 2, n_groups), dtype=np.int64)
-            grown[:cap] = bounds
-            bounds = grown
+            bounds = _grown(bounds, cap * 2)
             cap *= 2
         nsize = 0
         for k in range(size):
@@ -100,12 +100,23 @@ def _bfs(prefixes, links):
                             nxt[nsize] = r
                             nsize += 1
                     hi[g] = p
-        bounds[layer] = hi
+        for g in range(n_groups):
+            bounds[layer, g] = hi[g]
         frontier, nxt = nxt, frontier
         size = nsize
     if not found:
         return bounds, -1, reached_pos, reached_right
     return bounds, layer, reached_pos, reached_right
+
+
+@jit(inline=True)
+def _grown(bounds, rows):
+    """A copy of ``bounds`` with room for ``rows`` layers."""
+    grown = np.empty((rows, bounds.shape[1]), dtype=np.int64)
+    for r in range(bounds.shape[0]):
+        for g in range(bounds.shape[1]):
+            grown[r, g] = bounds[r, g]
+    return grown
 
 
 @jit
@@ -179,7 +190,9 @@ def greedy_start(prefixes, links, fit):
     m = order.shape[0]
     n_groups = latest.shape[1]
     # parent[q + 1] leads to 1 + the latest free position <= q (0: none left).
-    parent = np.arange(m + 1)
+    parent = np.empty(m + 1, dtype=np.int64)
+    for q in range(m + 1):
+        parent[q] = q
     for k in range(m):
         j = right_order[k]
         best_q = -1
@@ -202,7 +215,7 @@ def greedy_start(prefixes, links, fit):
             parent[best_q + 1] = best_q
 
 
-@jit
+@jit(inline=True)
 def _find(parent, x):
     root = x
     while parent[root] != root:

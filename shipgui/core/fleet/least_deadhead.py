@@ -40,27 +40,55 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..model import Day
-from ._flow_kernel import INF, Residual, cancel_one_unit, cost_scaling, repair, tighten_prices
+from ._flow_kernel import (
+    DONE,
+    STOPPED,
+    LinkCosts,
+    Residual,
+    cost_scaling,
+    repair,
+    tighten_prices,
+    violated_links,
+)
 from .precedence import PrefixIndex
 
-__all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution"]
+__all__ = ["ClassCosts", "class_costs", "least_cost_links", "LinkSolution", "Stopped"]
+
+
+class Stopped(Exception):
+    """The stage was stopped from outside (its ``stop`` flag was set)."""
 
 _ALPHA = 32  # cost-scaling factor between phases
 _WARM_DIV = 1024  # a warm start begins near the final precision
-_MARGIN = 0.05  # also price in arcs within 5 % of the worst violation (fewer rounds)
+_MARGIN_PERCENT = 5  # also price in arcs within 5 % of the worst violation (fewer rounds)
 _REPAIR_LIMIT = 100  # arcs priced in at once: re-optimise by shortest paths up to this
 _CANDIDATE_GROUPS = 12  # first round: link arcs from each successor's cheapest groups
+_BLOCK_CELLS = 1 << 22  # (job, group) cells worked on at once when choosing them
 
 
 @dataclass(frozen=True, eq=False)
 class ClassCosts:
-    """Link costs of one vehicle class: ``cost[j, g]`` seconds for linking any job of
-    group g before local job j (valid where ``index.latest[j, g] >= 0``)."""
+    """Link costs of one vehicle class: :meth:`cost_of` gives the seconds for
+    linking any job of group g before local job j (valid where
+    ``index.latest[j, g] >= 0``).  They are worked out when needed, never held
+    as an (m, G) table: on a day of 200 000 jobs that table alone is 320 MB."""
 
     index: PrefixIndex
-    cost: np.ndarray
+    links: LinkCosts  # what a link's cost is made of (also read by the kernels)
     base: int
     group_of: np.ndarray  # local job -> its destination group
+
+    def cost_of(self, js: np.ndarray, gs: np.ndarray) -> np.ndarray:
+        """Cost (seconds) of linking group ``gs[k]`` before local job ``js[k]``."""
+        links = self.links
+        return (links.travel[links.group_site[gs], links.origin[js]]
+                - links.pin[gs] - links.pout[js])
+
+    def matrix(self, rows: slice = slice(None)) -> np.ndarray:
+        """``cost[j, g]`` for the local jobs in ``rows`` (all of them: small days)."""
+        links = self.links
+        return (links.travel[links.group_site][:, links.origin[rows]].T
+                - links.pin[None, :] - links.pout[rows, None])
 
 
 @dataclass(frozen=True)
@@ -82,17 +110,19 @@ def class_costs(day: Day, index: PrefixIndex) -> ClassCosts:
     t = day.travel
     origin = day.origin[index.jobs]
     dest = day.destination[index.jobs]
-    cost = t[index.group_site][:, origin].T.astype(np.int64)  # (m, G)
+    pin = np.zeros(len(index.group_site), dtype=np.int64)
+    pout = np.zeros(index.m, dtype=np.int64)
     base = 0
     if day.settings.depot is not None:
         d = day.site_index[day.settings.depot]
-        pin_group = t[index.group_site, d]
-        pout = t[d, origin]
-        cost = cost - pin_group[None, :] - pout[:, None]
+        pin = t[index.group_site, d].astype(np.int64)
+        pout = t[d, origin].astype(np.int64)
         base = int(pout.sum() + t[dest, d].sum())
     group_of = np.empty(index.m, dtype=np.int64)
     group_of[index.order] = index.group_of_position()
-    return ClassCosts(index, cost, base, group_of)
+    links = LinkCosts(index.latest, index.group_site.astype(np.int64), origin.astype(np.int64),
+                      np.ascontiguousarray(t, dtype=np.int64), pin, pout)
+    return ClassCosts(index, links, base, group_of)
 
 
 @dataclass(frozen=True, eq=False)
@@ -139,7 +169,7 @@ def _network(costs: ClassCosts, allowed: np.ndarray) -> _Network:
         (np.full(len(start_pos), source), start_pos, 1, 0),
         (pos[chain], nxt[chain], m, 0),
         (m + succ_jobs, np.full(len(succ_jobs), sink), 1, 0),
-        (q, m + js, 1, costs.cost[js, gs] * scale),
+        (q, m + js, 1, costs.cost_of(js, gs) * scale),
     ]
     sizes = [len(p[0]) for p in parts]
     n_arcs = sum(sizes)
@@ -168,21 +198,29 @@ def _network(costs: ClassCosts, allowed: np.ndarray) -> _Network:
         link_key=js.astype(np.int64) * n_groups + gs, source=source, sink=sink, scale=scale)
 
 
-def _initial_allowed(costs: ClassCosts) -> np.ndarray:
-    """Per successor, the link arcs from its few cheapest groups (a copy)."""
+def _initial_allowed(costs: ClassCosts, groups: int) -> np.ndarray:
+    """Per successor, the link arcs from its ``groups`` cheapest groups (a new array).
+
+    Worked out a block of rows at a time, so that no (m, G) cost table is held."""
     valid = costs.index.latest >= 0
     m, n_groups = valid.shape
-    if n_groups <= _CANDIDATE_GROUPS:
-        return valid.copy()
-    masked = np.where(valid, costs.cost, np.iinfo(np.int64).max)
-    best = np.argpartition(masked, _CANDIDATE_GROUPS - 1, axis=1)[:, :_CANDIDATE_GROUPS]
+    if n_groups <= groups:
+        return valid
     allowed = np.zeros((m, n_groups), dtype=bool)
-    np.put_along_axis(allowed, best, True, axis=1)
+    rows = max(1, _BLOCK_CELLS // n_groups)
+    for a in range(0, m, rows):
+        block = slice(a, min(m, a + rows))
+        masked = np.where(valid[block], costs.matrix(block), np.iinfo(np.int64).max)
+        best = np.argpartition(masked, groups - 1, axis=1)[:, :groups]
+        np.put_along_axis(allowed[block], best, True, axis=1)
     return allowed & valid
 
 
 def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
-                     check: Callable[[], None] | None = None) -> LinkSolution:
+                     check: Callable[[], None] | None = None, *,
+                     candidate_groups: int = _CANDIDATE_GROUPS,
+                     repair_limit: int = _REPAIR_LIMIT,
+                     stop: np.ndarray | None = None) -> LinkSolution:
     """The least-cost set of as many links as ``matching`` has, for one class.
 
     Parameters
@@ -192,6 +230,12 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
         the fleet stays minimal; its links also make the first round feasible.
     extra : also the least cost with links - 1, ..., links - extra.
     check : called between rounds; it may raise to stop the solve.
+    candidate_groups, repair_limit : the way to the optimum, never the result:
+        link arcs from each successor's ``candidate_groups`` cheapest groups
+        in the first round; re-optimise by shortest paths when at most
+        ``repair_limit`` arcs are priced in at once, else by cost scaling.
+    stop : an int64 array; setting ``stop[0]`` from another thread stops the
+        kernels within milliseconds (they run without the GIL).
 
     Returns
     -------
@@ -201,6 +245,8 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
 
     Raises
     ------
+    Stopped
+        When ``stop[0]`` was set.
     RuntimeError
         If the flow lost links or its cost disagrees with the links (a bug).
 
@@ -208,13 +254,14 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
     -----
     Each round is a min-cost flow by cost scaling on the O(m * G) arcs allowed
     so far (worst case O(V^2 E log(V C)), Goldberg & Tarjan); rounds are few in
-    practice.  Memory O(m * G).
+    practice.  Memory O(m * G): the (job, group) bitmap of the arcs allowed and
+    the prefix index; link costs are worked out when needed.
 
     Link arcs are priced in (column generation; e.g. Desrosiers & Lübbecke, "A
     primer in column generation", in Column Generation, Springer 2005): the
     flow is solved on each successor's cheapest groups, exact duals are
     computed, and every left-out arc with a negative reduced cost (and those
-    within ``_MARGIN`` of the worst violation) is added before solving again,
+    within ``_MARGIN_PERCENT`` of the worst violation) is added before solving again,
     warm-started from the previous flow and prices.  It
     stops when no arc of the full network has a negative reduced cost, which
     proves the flow optimal on the full network.  The same check follows every
@@ -248,12 +295,14 @@ def least_cost_links(costs: ClassCosts, matching: np.ndarray, extra: int = 0,
     links = len(linked)
     if links == 0:
         return LinkSolution(np.full(m, -1, dtype=np.int64), 0, 0, (0,), 0)
-    allowed = _initial_allowed(costs)
+    allowed = _initial_allowed(costs, max(1, candidate_groups))
     allowed[matching[linked], costs.group_of[linked]] = True
-    flow = _PricedFlow(costs, allowed, links, check or (lambda: None))
+    if stop is None:
+        stop = np.zeros(1, dtype=np.int64)
+    flow = _PricedFlow(costs, allowed, links, check or (lambda: None), repair_limit, stop)
     succ = flow.links()
     linked = np.flatnonzero(succ >= 0)
-    link_cost = int(costs.cost[succ[linked], costs.group_of[linked]].sum())
+    link_cost = int(costs.cost_of(succ[linked], costs.group_of[linked]).sum())
     if len(linked) != links:
         raise RuntimeError("least-deadhead flow does not have the asked number of links")
     if link_cost != flow.link_cost():
@@ -271,13 +320,12 @@ class _PricedFlow:
     the full network by adding every priced-out arc and solving again."""
 
     def __init__(self, costs: ClassCosts, allowed: np.ndarray, links: int,
-                 check: Callable[[], None]):
+                 check: Callable[[], None], repair_limit: int, stop: np.ndarray):
         self.costs = costs
         self.check = check
+        self.repair_limit = repair_limit
+        self.stop = stop
         self.allowed = allowed
-        index = costs.index
-        self.js, self.gs = np.nonzero(index.latest >= 0)
-        self.q = index.latest[self.js, self.gs].astype(np.int64)
         self.rounds = 0
         self.net = _network(costs, allowed)
         self.cap = self.net.cap.copy()
@@ -291,9 +339,9 @@ class _PricedFlow:
     def _scale(self, excess: np.ndarray, eps: int) -> None:
         net = self.net
         self.rounds += 1
-        if not cost_scaling(net.residual, self.cap, excess, self.price, eps, _ALPHA,
-                            _ALPHA if eps <= 0 else _WARM_DIV):
-            raise RuntimeError("least-deadhead flow: the matching's links could not be routed")
+        status = cost_scaling(net.residual, self.cap, excess, self.price, eps, _ALPHA,
+                              _ALPHA if eps <= 0 else _WARM_DIV, self.stop)
+        self._done(status, "the matching's links could not be routed")
         if not tighten_prices(net.residual, self.cap, self.price):
             raise RuntimeError("least-deadhead flow is not optimal (negative cycle)")
 
@@ -308,7 +356,7 @@ class _PricedFlow:
                 return
             violation, count = priced
             zero = np.zeros(len(self.price), dtype=np.int64)
-            if count > _REPAIR_LIMIT:
+            if count > self.repair_limit:
                 self._scale(zero, violation)
                 continue
             self.rounds += 1
@@ -321,24 +369,18 @@ class _PricedFlow:
             np.add.at(zero, res.head[bad], cap[bad])
             cap[res.rev[bad]] += cap[bad]
             cap[bad] = 0
-            if not repair(res, cap, self.price, zero):
-                raise RuntimeError("least-deadhead flow: could not rebalance after pricing")
+            self._done(repair(res, cap, self.price, zero, self.stop),
+                       "could not rebalance after pricing")
 
     def _priced_out(self) -> tuple[int, int] | None:
         """Add the left-out arcs with a negative reduced cost (and near misses)
         and carry the flow over to the larger network: (largest violation,
         number of violated arcs), or None when no arc is violated."""
-        js, gs, m = self.js, self.gs, self.costs.index.m
-        reduced = self.costs.cost[js, gs] * self.net.scale + self.price[self.q] \
-            - self.price[m + js]
-        new = ~self.allowed[js, gs]
-        violated = (reduced < 0) & new
-        if not violated.any():
+        worst, count, keys = violated_links(self.costs.links, self.allowed, self.price,
+                                            self.net.scale, _MARGIN_PERCENT)
+        if count == 0:
             return None
-        worst = int(-reduced[violated].min())
-        margin = int(_MARGIN * worst)  # also near misses, which the re-optimisation may need
-        missing = violated | (new & (reduced < margin)) if margin > 0 else violated
-        self.allowed[js[missing], gs[missing]] = True
+        self.allowed.reshape(-1)[keys] = True
         old, old_cap = self.net, self.cap
         net = _network(self.costs, self.allowed)
         flow = np.zeros(len(net.slot), dtype=np.int64)
@@ -348,7 +390,7 @@ class _PricedFlow:
         cap[net.slot] -= flow
         cap[net.residual.rev[net.slot]] += flow
         self.net, self.cap = net, cap
-        return worst, int(violated.sum())
+        return int(worst), int(count)
 
     def links(self) -> np.ndarray:
         """succ array of the current flow."""
@@ -376,9 +418,18 @@ class _PricedFlow:
         return int(net.link_flow(self.cap) @ link_cost) // net.scale
 
     def take_one_unit(self) -> None:
-        """Remove one link at least extra cost (the flow stays optimal)."""
+        """Remove one link at least extra cost (the flow stays optimal): one unit
+        back from the sink to the source along a cheapest residual path."""
         net = self.net
-        step = cancel_one_unit(net.residual, self.cap, self.price, net.source, net.sink)
-        if step >= INF:
-            raise RuntimeError("least-deadhead trade-off: no link to remove")
+        excess = np.zeros(net.nodes, dtype=np.int64)
+        excess[net.sink] = 1
+        excess[net.source] = -1
+        self._done(repair(net.residual, self.cap, self.price, excess, self.stop),
+                   "no link to remove in the trade-off")
         self._price_in()
+
+    def _done(self, status: int, failure: str) -> None:
+        if status == STOPPED:
+            raise Stopped()
+        if status != DONE:
+            raise RuntimeError(f"least-deadhead flow: {failure}")

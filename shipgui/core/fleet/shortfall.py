@@ -41,7 +41,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..model import PRIORITY_UNIT, Day, ServiceProof, Shortfall, priority_units
-from ._flow_kernel import Residual, cost_scaling, tighten_prices
+from ._flow_kernel import DONE, Residual, cost_scaling, tighten_prices
 from ._level_kernel import heaviest_ending
 from .precedence import PrefixIndex
 
@@ -189,7 +189,8 @@ class _Flow:
         excess = np.zeros(self.arcs.nodes, dtype=np.int64) if self.started \
             else self.arcs.supply.copy()
         self.started = True
-        if not cost_scaling(res, self.cap, excess, price, 0, _ALPHA, _ALPHA):
+        never = np.zeros(1, dtype=np.int64)  # no stop flag: this stage is not bounded
+        if cost_scaling(res, self.cap, excess, price, 0, _ALPHA, _ALPHA, never) != DONE:
             raise RuntimeError("vehicle-limit flow: the vehicles could not be routed")
         if not tighten_prices(res, self.cap, price):
             raise RuntimeError("vehicle-limit flow is not optimal (negative cycle)")
