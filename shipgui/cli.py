@@ -35,6 +35,7 @@ from shipgui.core.export.plan_json import plan_to_json
 from shipgui.core.fleet.deadhead import TRADEOFF_SHOWN, tradeoff_rows
 from shipgui.core.fleet.schedule import class_counts
 from shipgui.core.fleet.shortfall import priority_text
+from shipgui.core.fleet.solve import LEAST_DEADHEAD_SECONDS
 from shipgui.core.fleet.suggest import DEFAULT_MAX_MOVE, SuggestionSearch, suggest_moves
 from shipgui.core.io.files import name_refused, write_files_atomic, write_problem
 from shipgui.core.io.plan_file import PLAN_SUFFIX, read_plan_file
@@ -43,12 +44,15 @@ from shipgui.core.io.tables import parse_delimiter
 from shipgui.core.model import (
     DEFAULT_CIRCUITY,
     DEFAULT_SPEED_KMH,
+    Day,
     DayInputs,
     Plan,
     priority_units,
 )
 from shipgui.core.planner import DEFAULT_TIME_LIMIT
+from shipgui.core.prepare import LATER, Preparation, kernels_ready, needs_later
 from shipgui.core.workday.explain import limit_cost_text, search_text
+from shipgui.terminal import ProgressLine
 
 
 class UsageError(Exception):
@@ -151,6 +155,12 @@ def _add_common(p: argparse.ArgumentParser) -> None:
     p.add_argument("--least-deadhead", action=argparse.BooleanOptionalAction, default=True,
                    help="among minimum-fleet plans, pick one with the least empty driving "
                    "(default; --no-least-deadhead keeps any minimum-fleet routes)")
+    p.add_argument("--least-deadhead-time", metavar="S",
+                   type=_number("--least-deadhead-time", 0, 86400),
+                   default=LEAST_DEADHEAD_SECONDS,
+                   help="seconds the search for the least empty driving may run before it "
+                   "keeps minimum-fleet routes, with a note (default "
+                   f"{LEAST_DEADHEAD_SECONDS:g}; 0 for no limit)")
     p.add_argument("--tradeoff", metavar="N", type=_count, default=TRADEOFF_SHOWN,
                    help=f"also price up to N extra vehicles (default {TRADEOFF_SHOWN}; "
                    f"0 for none; at most {MAX_TRADEOFF})")
@@ -538,6 +548,8 @@ def _deadhead_lines(plan: Plan) -> list[str]:
                  "searched": " (searched for less; not proven least for this fleet)"}.get(
             plan.workday.deadhead_status, " (not optimised: no time was left)")
     lines = [f"Empty driving: {format_duration(plan.deadhead_seconds)} in all{least}"]
+    if plan.deadhead_note:
+        lines.append(f"Note: {plan.deadhead_note} (--least-deadhead-time 0: no time limit)")
     for row in tradeoff_rows(plan, MAX_TRADEOFF)[1:]:
         note = f" (all {row.vehicles} out: {format_duration(row.exactly)})" \
             if row.exactly_differs else ""
@@ -594,15 +606,52 @@ def _checked_date(given: date | None, inputs: DayInputs) -> date | None:
     return given or found
 
 
+def _start_preparation() -> Preparation | None:
+    """On the first start, compile the kernels in child processes while the
+    input is read (said once, on stderr, so that the wait is explained)."""
+    if kernels_ready():
+        return None
+    print("Preparing the solver for this computer (first start only, a few seconds)...",
+          file=sys.stderr, flush=True)
+    return Preparation()
+
+
+def _read_and_prepare(args: argparse.Namespace, files: dict[str, str | None],
+                      base: Settings, progress: ProgressLine) -> Day:
+    progress.stage("reading")
+    preparation = _start_preparation()
+    try:
+        day = build_inputs(_read(args, files, base))
+        if preparation is not None:
+            progress.stage("preparing")
+            preparation.wait()
+        if needs_later(day) and not kernels_ready(LATER):  # they build on the first ones
+            preparation = Preparation(LATER)
+            preparation.wait()
+        return day
+    finally:
+        if preparation is not None:
+            preparation.stop()
+
+
 def _run_solve(args: argparse.Namespace, files: dict[str, str | None], base: Settings,
                label: str) -> int:
     _check_outputs(args, list(files.values()))
     count, max_move = _suggest_options(args)
+    limit = args.least_deadhead_time or None
     t0 = time.perf_counter()
-    day = build_inputs(_read(args, files, base))
-    t1 = time.perf_counter()
-    plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=args.tradeoff,
-                     time_limit=args.time_limit, on_progress=_search_progress())
+    progress = ProgressLine(limit_note=f"stops after {limit:g} s" if limit else "")
+    try:
+        day = _read_and_prepare(args, files, base, progress)
+        if day.settings.max_day is not None:
+            progress.close()  # a working-day search prints its own progress lines
+        t1 = time.perf_counter()
+        progress.stage("solving")
+        plan = solve_day(day, least_deadhead=args.least_deadhead, tradeoff=args.tradeoff,
+                         time_limit=args.time_limit, on_progress=_search_progress(),
+                         progress=progress.stage, least_deadhead_seconds=limit)
+    finally:
+        progress.close()
     if not plan.verified:
         print(_summary(plan, label), file=sys.stderr)
         return 1

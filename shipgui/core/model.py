@@ -322,6 +322,9 @@ class Plan:
     # proof that no plan serves more (None without a limit).  The routes and the
     # certificate then concern the served jobs.
     shortfall: Shortfall | None = None
+    # Why the routes are not the least empty driving although that was asked
+    # for (the stage reached its time limit); "" otherwise.
+    deadhead_note: str = ""
 
     @property
     def vehicles(self) -> int:

@@ -21,7 +21,9 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
               tradeoff: int = 5, time_limit: float = DEFAULT_TIME_LIMIT,
               progress: Callable[[str], None] | None = None,
               cancelled: Callable[[], bool] | None = None,
-              on_progress: Callable[[Progress], None] | None = None) -> Plan:
+              on_progress: Callable[[Progress], None] | None = None,
+              fleet_first: Callable[[Plan], None] | None = None,
+              least_deadhead_seconds: float | None = None) -> Plan:
     """Plan ``day``: the minimum fleet, or with a working-day limit the best plan
     found within ``time_limit`` seconds and a proven lower bound.
 
@@ -38,10 +40,15 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
         plan (its ``workday.status`` says "stopped").
     on_progress : with a limit, called with the best plan's vehicles and the
         proven bound each time either improves.
+    fleet_first, least_deadhead_seconds : without a limit, the fleet and its
+        proof handed over before the least-empty-driving stage, and that
+        stage's time limit (see :func:`shipgui.core.fleet.solve.solve_day`).
     """
     if day.settings.max_day is None:
         return solve_fleet(day, kernel=kernel, least_deadhead=least_deadhead,
-                           tradeoff=tradeoff, progress=progress, cancelled=cancelled)
+                           tradeoff=tradeoff, progress=progress, cancelled=cancelled,
+                           fleet_first=fleet_first,
+                           least_deadhead_seconds=least_deadhead_seconds)
     if progress is not None:
         progress("working-day search")
     plan = solve_workday(day, time_limit=time_limit, cancelled=cancelled,

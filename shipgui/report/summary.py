@@ -156,6 +156,8 @@ def _empty_driving_text(plan: Plan) -> str:
     elif plan.least_deadhead and plan.vehicles:
         text += (f"<br/><font size=8>the least possible with "
                  f"{_vehicles_text(plan.vehicles)}</font>")
+    elif plan.deadhead_note:
+        text += f"<br/><font size=8>{esc(plan.deadhead_note)}</font>"
     elif plan.vehicles:
         text += "<br/><font size=8>not minimised: any plan with this many vehicles</font>"
     sheets = sum(math.ceil(s / 60) for v in vehicle_days(plan) for s in (*v.before, v.pull_in))

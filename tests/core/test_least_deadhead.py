@@ -11,6 +11,9 @@ from shipgui.core.fleet.matching import maximum_matching
 from shipgui.core.fleet.precedence import class_indexes
 from tests.support.days import random_day
 
+# Kernel tests: CI runs them a second time as plain Python (NUMBA_DISABLE_JIT=1).
+pytestmark = pytest.mark.kernels
+
 
 def _networkx_min_cost(day, costs, extra_vehicles=0):
     """Reference: networkx max_flow_min_cost on the split graph (Ahuja, Magnanti &
@@ -25,8 +28,9 @@ def _networkx_min_cost(day, costs, extra_vehicles=0):
     for i in range(n):
         g.add_edge("cap", ("L", i), capacity=1, weight=0)
         g.add_edge(("R", i), "t", capacity=1, weight=0)
+    cost = costs.matrix()
     for i, j in zip(*m.nonzero()):
-        g.add_edge(("L", i), ("R", j), capacity=1, weight=int(costs.cost[j, costs.group_of[i]]))
+        g.add_edge(("L", i), ("R", j), capacity=1, weight=int(cost[j, costs.group_of[i]]))
     flow = nx.max_flow_min_cost(g, "s", "t")
     value = sum(f * g[u][v]["weight"] for u in flow for v, f in flow[u].items())
     return sum(flow["s"].values()), value
@@ -47,12 +51,9 @@ STRATEGIES = {"all-arcs": (10**6, 10**6), "priced-scaling": (1, 0), "priced-repa
 
 
 @pytest.fixture(params=list(STRATEGIES))
-def strategy(request, monkeypatch):
-    import shipgui.core.fleet.least_deadhead as least
+def strategy(request):
     groups, repair = STRATEGIES[request.param]
-    monkeypatch.setattr(least, "_CANDIDATE_GROUPS", groups)
-    monkeypatch.setattr(least, "_REPAIR_LIMIT", repair)
-    return request.param
+    return {"candidate_groups": groups, "repair_limit": repair}
 
 
 @pytest.mark.parametrize("seed", range(110))
@@ -61,7 +62,7 @@ def test_least_cost_equals_networkx_min_cost_flow(seed, strategy):
     index = class_indexes(day)[0]
     costs = class_costs(day, index)
     matching = maximum_matching(index, day=day)
-    best = least_cost_links(costs, matching.succ)
+    best = least_cost_links(costs, matching.succ, **strategy)
     assert (best.links, best.link_cost) == _networkx_min_cost(day, costs)
     assert best.links == matching.size  # still the minimum fleet
     # The links are real: each one is a compatible pair, each job used once.
@@ -90,7 +91,7 @@ def test_least_cost_equals_scipy_assignment_on_all_pairs(seed):
     local = np.empty(n, dtype=np.int64)
     local[index.jobs] = np.arange(n)
     i, j = local[follows.row], local[follows.col]
-    w = costs.cost[j, costs.group_of[i]] + 1 - costs.cost.min()
+    w = costs.matrix()[j, costs.group_of[i]] + 1 - costs.matrix().min()
     end = int(w.max()) * (n + 1)
     graph = sparse.csr_matrix(
         (np.concatenate([w, np.full(n, end)]).astype(float),
@@ -99,7 +100,7 @@ def test_least_cost_equals_scipy_assignment_on_all_pairs(seed):
     rows, cols = min_weight_full_bipartite_matching(graph)
     linked = cols < n
     assert linked.sum() == best.links
-    assert int(costs.cost[cols[linked], costs.group_of[rows[linked]]].sum()) == best.link_cost
+    assert int(costs.cost_of(cols[linked], costs.group_of[rows[linked]]).sum()) == best.link_cost
 
 
 def test_least_deadhead_is_deterministic():
@@ -171,7 +172,7 @@ def test_tradeoff_matches_networkx_and_is_monotone(seed, strategy):
     day = _one_class(seed)
     index = class_indexes(day)[0]
     costs = class_costs(day, index)
-    best = least_cost_links(costs, maximum_matching(index, day=day).succ, extra=3)
+    best = least_cost_links(costs, maximum_matching(index, day=day).succ, extra=3, **strategy)
     curve = best.curve
     assert curve[0] == best.link_cost and len(curve) == min(4, best.links + 1)
     assert all(a >= b for a, b in zip(curve, curve[1:]))
@@ -247,19 +248,47 @@ def test_same_plan_without_numba():
     assert [p["tradeoff"] for p in plain] == [p["tradeoff"] for p in compiled]
 
 
-def test_cancel_reaches_inside_the_least_deadhead_stage():
-    # A long least-deadhead solve stops between its rounds, not only after them.
+def test_cancel_reaches_inside_the_least_deadhead_kernels():
+    # A long least-deadhead stage stops soon after the cancel, even in the middle
+    # of a compiled kernel (a watcher sets the kernels' stop flag).
+    import threading
+    import time
+
     from shipgui.core.fleet.solve import Cancelled
     from tests.support.days import regional_day
-    calls = []
+    solve_day(regional_day(200, 20, seed=1))  # compiled before the clock runs
+    day = regional_day(6000, 150, seed=2)
+    reached = threading.Event()
 
-    def cancelled():
-        calls.append(1)
-        return len(calls) >= 3  # after relation and matching: inside the flow rounds
+    def progress(stage):
+        if stage == "matching":  # the least-deadhead stage starts now
+            reached.set()
+            threading.Timer(0.2, cancel_at.append, [time.perf_counter()]).start()
 
+    cancel_at: list[float] = []
     with pytest.raises(Cancelled):
-        solve_day(regional_day(400, 30, seed=2), cancelled=cancelled)
-    assert len(calls) == 3
+        solve_day(day, progress=progress, cancelled=lambda: bool(cancel_at))
+    assert reached.is_set()
+    assert time.perf_counter() - cancel_at[0] < 1.0
+
+
+def test_time_limit_keeps_a_verified_minimum_fleet_and_says_so():
+    # Bounded: when the least-deadhead stage reaches its time limit the plan keeps
+    # the matching's routes (still the minimum, verified), claims nothing more,
+    # and says why -- in the plan, the JSON and the command line's summary.
+    from shipgui.core.export.plan_json import plan_to_dict
+    from tests.support.days import regional_day
+    day = regional_day(6000, 150, seed=3)
+    bare = solve_day(day, least_deadhead=False)
+    stopped = solve_day(day, least_deadhead_seconds=0.001)
+    assert stopped.verified and not stopped.least_deadhead and stopped.tradeoff == ()
+    assert stopped.vehicles == bare.vehicles and stopped.routes == bare.routes
+    assert "time limit" in stopped.deadhead_note and "fewest vehicles" in stopped.deadhead_note
+    data = plan_to_dict(stopped)
+    assert data["least_deadhead"] is False and data["least_deadhead_note"] == stopped.deadhead_note
+    assert "least_deadhead_note" not in plan_to_dict(bare)
+    full = solve_day(regional_day(300, 25, seed=3), least_deadhead_seconds=60)
+    assert full.least_deadhead and full.deadhead_note == ""
 
 
 def test_tradeoff_rows_for_screens_and_sheets():
@@ -283,3 +312,21 @@ def test_tradeoff_rows_for_screens_and_sheets():
                               tradeoff_exact=((v, d), (v + 1, a - 30), (v + 2, a + 60)))
     assert [r.exactly_differs for r in tradeoff_rows(odd)] == [False, False, True]
     assert tradeoff_rows(solve_day(regional_day(200, 20, seed=4), least_deadhead=False)) == []
+
+
+def test_fleet_and_proof_come_before_the_least_deadhead_stage():
+    # A screen shows the fleet and its proof at once; the routes follow. The early
+    # plan is whole and verified on its own (never a mix of two solves).
+    from tests.support.days import regional_day
+    day = regional_day(300, 25, seed=6)
+    events = []
+    plan = solve_day(day, progress=events.append, fleet_first=events.append)
+    (fleet,) = [e for e in events if not isinstance(e, str)]
+    assert events.index(fleet) < events.index("least deadhead")
+    assert fleet.verified and not fleet.least_deadhead and fleet.tradeoff == ()
+    assert fleet.vehicles == plan.vehicles and fleet.certificate == plan.certificate
+    assert sorted(j for route in fleet.routes for j in route) == list(range(day.n))
+    assert plan.least_deadhead and plan.deadhead_seconds <= fleet.deadhead_seconds
+    calls = []
+    solve_day(day, least_deadhead=False, fleet_first=calls.append)
+    assert calls == []  # no stage to wait for: the plan itself is the answer

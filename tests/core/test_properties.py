@@ -2,10 +2,14 @@
 order and every plan's certificate verifies."""
 
 import numpy as np
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from shipgui.core import Job, Settings, build_day, can_follow_matrix, check_plan, solve_day
+
+# Kernel tests: CI runs them a second time as plain Python (NUMBA_DISABLE_JIT=1).
+pytestmark = pytest.mark.kernels
 
 
 @st.composite

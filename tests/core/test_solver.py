@@ -11,6 +11,9 @@ from shipgui.core.fleet.matching import available_kernels, maximum_matching
 from shipgui.core.fleet.precedence import prefix_index_from_matrix
 from tests.support.days import random_day, slot_day, tanker_day
 
+# Kernel tests: CI runs them a second time as plain Python (NUMBA_DISABLE_JIT=1).
+pytestmark = pytest.mark.kernels
+
 KERNELS = available_kernels()
 
 

@@ -43,6 +43,9 @@ def plan_to_dict(plan: Plan, *, cost_model: dict | None = None,
         extra.update(_suggestions(plan, suggestions))
     if plan.workday is not None:
         extra["working_day"] = _working_day(plan)
+    if plan.deadhead_note:
+        # least_deadhead is false: the stage stopped at its time limit.
+        extra["least_deadhead_note"] = plan.deadhead_note
     return {
         "vehicles": plan.vehicles,
         "vehicles_by_class": [{"vehicle_class": name, "vehicles": count}

@@ -8,31 +8,80 @@ matching's final search also yields a maximum antichain, the certificate.
 
 from __future__ import annotations
 
+import threading
 import time
 from collections.abc import Callable
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from ..model import Day, Plan, ServiceProof, Shortfall, priority_units
 from .deadhead import TRADEOFF_SHOWN, plan_deadhead
-from .least_deadhead import class_costs, least_cost_links
+from .least_deadhead import Stopped, class_costs, least_cost_links
 from .matching import default_kernel, maximum_matching
 from .precedence import PrefixIndex, class_indexes, prefix_index
 from .shortfall import Pool, proof_bound, serve_most, vehicle_pools
 from .verify import check_plan
 from .verify_shortfall import check_shortfall
 
-__all__ = ["solve_day", "Cancelled"]
+__all__ = ["solve_day", "Cancelled", "stopped_note", "LEAST_DEADHEAD_SECONDS"]
+
+# How often the watcher of a long least-empty-driving stage looks at the clock
+# and at the caller's cancel flag.
+WATCH_POLL_S = 0.05
+# The command line's and the app's time limit of the least-empty-driving stage
+# (seconds): days up to about 100 000 jobs finish well within it on a 2-core
+# machine; larger ones keep a verified minimum fleet and say so.
+LEAST_DEADHEAD_SECONDS = 120.0
 
 
 class Cancelled(Exception):
     """The caller asked the solve to stop."""
 
 
+class _Watch:
+    """Sets the least-empty-driving kernels' stop flag when the solve is
+    cancelled or the stage's time is up.  A thread of its own: the kernels
+    run for seconds without the GIL, between the caller's cancel checks."""
+
+    def __init__(self, seconds: float | None, cancelled: Callable[[], bool] | None) -> None:
+        self.flag = np.zeros(1, dtype=np.int64)
+        self.timed_out = False
+        self._seconds, self._cancelled = seconds, cancelled
+        self._end = threading.Event()
+        self._thread: threading.Thread | None = None
+
+    def __enter__(self) -> _Watch:
+        if self._seconds is not None or self._cancelled is not None:
+            self._deadline = None if self._seconds is None else (
+                time.perf_counter() + self._seconds)
+            self._thread = threading.Thread(target=self._watch, daemon=True,
+                                            name="shipgui-least-deadhead-watch")
+            self._thread.start()
+        return self
+
+    def __exit__(self, *_exc) -> None:
+        self._end.set()
+        if self._thread is not None:
+            self._thread.join()
+
+    def _watch(self) -> None:
+        while not self._end.wait(WATCH_POLL_S):
+            if self._cancelled is not None and self._cancelled():
+                self.flag[0] = 1
+                return
+            if self._deadline is not None and time.perf_counter() >= self._deadline:
+                self.timed_out = True
+                self.flag[0] = 1
+                return
+
+
 def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = True,
               tradeoff: int = TRADEOFF_SHOWN,
               progress: Callable[[str], None] | None = None,
-              cancelled: Callable[[], bool] | None = None) -> Plan:
+              cancelled: Callable[[], bool] | None = None,
+              fleet_first: Callable[[Plan], None] | None = None,
+              least_deadhead_seconds: float | None = None) -> Plan:
     """Minimum fleet, routes and certificate for ``day``, independently verified.
 
     Parameters
@@ -45,7 +94,16 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
     tradeoff : with ``least_deadhead``, also price this many extra vehicles.
     progress : called with a stage name ("relation", "matching", "least
         deadhead", "routes", "verification") as each stage ends.
-    cancelled : polled between stages and pricing rounds.
+    cancelled : polled between stages and pricing rounds (and by a watcher
+        thread during the least-empty-driving kernels).
+    fleet_first : with ``least_deadhead``, called with the verified
+        minimum-fleet plan (the matching's routes and the certificate) before
+        the least-empty-driving stage starts, so that a screen can show the
+        fleet and its proof at once; the plan returned replaces it.
+    least_deadhead_seconds : time limit of the least-empty-driving stage (None:
+        none).  When it is reached the plan keeps the matching's routes (a
+        minimum fleet, verified), ``least_deadhead`` is false and
+        ``deadhead_note`` says why.
 
     Returns
     -------
@@ -115,39 +173,88 @@ def solve_day(day: Day, *, kernel: str | None = None, least_deadhead: bool = Tru
         if short is not None:
             return short
         t = time.perf_counter()
-    routes: list[tuple[int, ...]] = []
-    certificate: list[int] = []
-    savings: list[int] = []  # per extra vehicle in one class; can be negative
+    matchings = []
     for index in indexes:
-        matching = maximum_matching(index, kernel=kernel, day=day)
+        matchings.append(maximum_matching(index, kernel=kernel, day=day))
         t = stage("matching", t)
-        succ = matching.succ
-        if least_deadhead and index.m:
-            costs = class_costs(day, index)
-            best = least_cost_links(costs, succ, extra=tradeoff, check=stop_if_cancelled)
-            if best.links != matching.size:
-                raise RuntimeError("least-deadhead plan lost the minimum fleet")
-            succ = best.succ
-            savings.extend(a - b for a, b in zip(best.curve, best.curve[1:]))
-            t = stage("least deadhead", t)
-        routes.extend(_chains(index.jobs, succ))
-        certificate.extend(int(k) for k in index.jobs[matching.antichain])
-    routes.sort(key=lambda r: (int(day.start[r[0]]), r[0]))
-    certificate.sort(key=lambda k: (int(day.start[k]), k))
-    t = stage("routes", t)
-    failures = check_plan(day, routes, certificate)
-    stage("verification", t)
-    total, per_route = plan_deadhead(day, routes)
-    exact = _merge_tradeoff(len(routes), total, savings, tradeoff if least_deadhead else 0)
-    shortfall = None
-    if day.settings.vehicle_limit:  # enough vehicles: every job served
-        shortfall = _everything_served(day, len(routes))
-        failures += check_shortfall(day, routes, certificate, shortfall)
-    return Plan(day, tuple(routes), tuple(certificate), not failures, timings, kernel,
-                deadhead_seconds=total, route_deadhead_seconds=per_route,
-                tradeoff=_at_most(exact), tradeoff_exact=exact,
-                least_deadhead=least_deadhead, verification_failures=tuple(failures),
-                shortfall=shortfall)
+    certificate = sorted((int(k) for index, matching in zip(indexes, matchings)
+                          for k in index.jobs[matching.antichain]),
+                         key=lambda k: (int(day.start[k]), k))
+    fleet = _Fleet(day, indexes, certificate, kernel, timings)
+    first_plan = None
+    if not least_deadhead or fleet_first is not None:
+        first_plan = fleet.plan([m.succ for m in matchings], stage)
+        if not least_deadhead:
+            return first_plan
+        fleet_first(first_plan)
+    succs: list[np.ndarray] = []
+    savings: list[int] = []  # per extra vehicle in one class; can be negative
+    with _Watch(least_deadhead_seconds, cancelled) as watch:
+        try:
+            for index, matching in zip(indexes, matchings):
+                succ = matching.succ
+                if index.m:
+                    best = least_cost_links(class_costs(day, index), succ, extra=tradeoff,
+                                            check=stop_if_cancelled, stop=watch.flag)
+                    if best.links != matching.size:
+                        raise RuntimeError("least-deadhead plan lost the minimum fleet")
+                    succ = best.succ
+                    savings.extend(a - b for a, b in zip(best.curve, best.curve[1:]))
+                    t = stage("least deadhead", t)
+                succs.append(succ)
+        except Stopped:
+            stop_if_cancelled()
+            if not watch.timed_out:
+                raise
+            timings["least deadhead"] = timings.get("least deadhead", 0.0) + (
+                time.perf_counter() - t)
+            plan = first_plan or fleet.plan([m.succ for m in matchings], stage)
+            return replace(plan, timings=dict(timings),
+                           deadhead_note=stopped_note(least_deadhead_seconds))
+    return fleet.plan(succs, stage, savings=savings, tradeoff=tradeoff)
+
+
+def stopped_note(seconds: float | None) -> str:
+    """What a plan says when the least-empty-driving stage reached its time limit."""
+    return (f"The search for the least empty driving stopped at its time limit "
+            f"({seconds:g} s): these routes use the fewest vehicles, but their empty "
+            "driving is not the least possible.")
+
+
+@dataclass(frozen=True)
+class _Fleet:
+    """What every plan of one solve shares: the day, the classes, the certificate."""
+
+    day: Day
+    indexes: list
+    certificate: list[int]
+    kernel: str
+    timings: dict[str, float]
+
+    def plan(self, succs: list[np.ndarray], stage: Callable[[str, float], float], *,
+             savings: list[int] | None = None, tradeoff: int = 0) -> Plan:
+        """The verified plan of these links (``savings``: least-deadhead links)."""
+        day = self.day
+        t = time.perf_counter()
+        routes: list[tuple[int, ...]] = []
+        for index, succ in zip(self.indexes, succs):
+            routes.extend(_chains(index.jobs, succ))
+        routes.sort(key=lambda r: (int(day.start[r[0]]), r[0]))
+        t = stage("routes", t)
+        failures = check_plan(day, routes, self.certificate)
+        stage("verification", t)
+        total, per_route = plan_deadhead(day, routes)
+        least = savings is not None
+        exact = _merge_tradeoff(len(routes), total, savings or [], tradeoff if least else 0)
+        shortfall = None
+        if day.settings.vehicle_limit:  # enough vehicles: every job served
+            shortfall = _everything_served(day, len(routes))
+            failures += check_shortfall(day, routes, self.certificate, shortfall)
+        return Plan(day, tuple(routes), tuple(self.certificate), not failures,
+                    dict(self.timings), self.kernel, deadhead_seconds=total,
+                    route_deadhead_seconds=per_route, tradeoff=_at_most(exact),
+                    tradeoff_exact=exact, least_deadhead=least,
+                    verification_failures=tuple(failures), shortfall=shortfall)
 
 
 def _everything_served(day: Day, vehicles: int) -> Shortfall:
