@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import gc
 import os
 import sys
 from pathlib import Path
@@ -25,6 +26,7 @@ def make_application() -> QApplication:
     app = QApplication.instance()
     if app is None:
         app = QApplication([sys.argv[0] if sys.argv else "shipgui"])
+        _keep_the_window_responsive()
     app.setOrganizationName(ORGANISATION)
     app.setApplicationName(APPLICATION)
     app.setApplicationDisplayName("shipgui")
@@ -32,6 +34,18 @@ def make_application() -> QApplication:
     if icon.exists():
         app.setWindowIcon(QIcon(str(icon)))
     return app
+
+
+def _keep_the_window_responsive() -> None:
+    """The window shares Python's interpreter lock with the solver's thread.
+    Hand the lock over every millisecond instead of every 5 (Python's default),
+    so that drawing waits less while the solver runs Python code; and take
+    everything loaded so far (Qt, numpy, numba: long-lived) out of the garbage
+    collector's full passes, which would otherwise pause the window for tens
+    of milliseconds now and then."""
+    sys.setswitchinterval(0.001)
+    gc.collect()
+    gc.freeze()
 
 
 def open_window(files: list[str], *, demo: bool,

@@ -100,11 +100,9 @@ class MainWindow(QMainWindow):
                                               shortcut=QKeySequence.StandardKey.Delete,
                                               icon=sp.SP_DialogDiscardButton,
                                               tip="Delete the selected jobs")
-        self.delete_jobs_action.setShortcutContext(
-            Qt.ShortcutContext.WidgetWithChildrenShortcut)
-        self.cancel_action = make_action(self, "Cancel solving", self.solver.cancel,
-                                         shortcut="Esc", icon=sp.SP_BrowserStop,
-                                         tip="Stop the solve in progress")
+        self.delete_jobs_action.setShortcutContext(Qt.ShortcutContext.WidgetWithChildrenShortcut)
+        self.cancel_action = make_action(self, "Cancel solving", self.solver.cancel, shortcut="Esc",
+                                         icon=sp.SP_BrowserStop, tip="Stop the solve in progress")
         self.cancel_action.setEnabled(False)
         self.proof_action = make_action(self, "Show proof", self.show_proof, shortcut="Ctrl+P",
                                         tip="Highlight the jobs that prove no smaller fleet "
@@ -113,15 +111,13 @@ class MainWindow(QMainWindow):
                                           shortcut=QKeySequence.StandardKey.ZoomIn)
         self.zoom_out_action = make_action(self, "Zoom out", lambda: self.timeline.zoom_out(),
                                            shortcut=QKeySequence.StandardKey.ZoomOut)
-        self.zoom_fit_action = make_action(self, "Whole day",
-                                           lambda: self.timeline.zoom_to_fit(),
+        self.zoom_fit_action = make_action(self, "Whole day", lambda: self.timeline.zoom_to_fit(),
                                            shortcut="Ctrl+0")
         self.about_action = make_action(self, "About shipgui", self.show_about)
 
     def _make_panels(self) -> None:
         self.answer = AnswerBar(self.cancel_action)
-        self.jobs_panel = JobsPanel(self.jobs_model, [self.add_job_action,
-                                                      self.delete_jobs_action])
+        self.jobs_panel = JobsPanel(self.jobs_model, [self.add_job_action, self.delete_jobs_action])
         self.jobs_panel.table.addAction(self.delete_jobs_action)
         self.inputs_panel = InputsPanel()
         self.left_tabs = QTabWidget()
@@ -213,8 +209,7 @@ class MainWindow(QMainWindow):
     def _connect(self) -> None:
         self.document.subscribe(self._on_document_change)
         self.undo_stack.cleanChanged.connect(lambda _clean: self.update_title())
-        self.undo_stack.cleanChanged.connect(
-            lambda clean: self.autosaver.discard() if clean else None)
+        self.undo_stack.cleanChanged.connect(lambda c: self.autosaver.discard() if c else None)
         self.jobs_model.edit_refused.connect(self._refuse)
         self.inputs_panel.settings_refused.connect(self._refuse)
         self.inputs_panel.settings_edited.connect(
@@ -242,6 +237,7 @@ class MainWindow(QMainWindow):
         self.problem_box.problem_clicked.connect(self._on_problem_clicked)
         self.solver.busy_changed.connect(self._on_busy)
         self.solver.stage_changed.connect(lambda text: self.answer.set_busy(True, text))
+        self.solver.fleet_plan_ready.connect(lambda p, s: self._on_plan(p, s, final=False))
         self.solver.plan_ready.connect(self._on_plan)
         self.solver.search_progress.connect(
             lambda vehicles, bound, _seconds: self.answer.show_search(
@@ -338,8 +334,13 @@ class MainWindow(QMainWindow):
         if busy:
             self.answer.set_busy(True)
 
-    def _on_plan(self, plan: Plan, seconds: float) -> None:
-        self.plan, self.plan_is_current, self.problems = plan, True, []
+    def _on_plan(self, plan: Plan, seconds: float, final: bool = True) -> None:
+        self.plan, self.plan_is_current, self.problems = plan, final, []
+        if not final:  # fleet and proof first (the matching's routes); drivers, exports later
+            self.answer.show_fleet(plan, seconds)
+            for panel in (self.timeline, self.certificate, self.jobs_model):
+                panel.set_plan(plan)
+            return
         self.problem_box.show_shortened(plan.day)  # hidden when there are none
         self.answer.show_plan(plan, seconds)
         self._show_drivers(plan)
@@ -349,8 +350,7 @@ class MainWindow(QMainWindow):
         self.inputs_panel.show_notes(plan.day.warnings)
         self.files.update_actions()
         self.statusBar().showMessage(f"Solved {count(plan.day.n, 'job')} in "
-                                     f"{seconds * 1000:.0f} ms",
-                                     5000)
+                                     f"{seconds * 1000:.0f} ms", 5000)
         self.plan_shown.emit(plan)
 
     def _on_problems(self, problems: list[Problem]) -> None:

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import dataclasses
+import itertools
 import re
 
 from PySide6.QtTest import QAbstractItemModelTester
@@ -79,6 +80,9 @@ def test_pairs_model_lists_every_pair(qapp):
     model.set_plan(plan)
     n = len(plan.certificate)
     assert model.rowCount() == n * (n - 1) // 2
+    ids = plan.certificate_ids()  # sorted by start, as the rows are
+    assert [model.pair(r) for r in range(model.rowCount())] == list(
+        itertools.combinations(ids, 2))
     first, second = model.pair(0)
     assert first in plan.certificate_ids() and second in plan.certificate_ids()
     label = model.index(0, PairColumn.SHORT_BY).data()

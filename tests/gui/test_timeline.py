@@ -28,10 +28,27 @@ def view(qtbot):
 
 def test_one_bar_per_job_with_its_id(view, demo_plan):
     view.set_plan(demo_plan)
+    for job in demo_plan.day.jobs:
+        bar = view.job_bar(job.id)
+        assert bar.job_id == job.id and job.id in bar.toolTip()
     bars = [i for i in view.scene().items() if isinstance(i, JobBar)]
     assert sorted(b.job_id for b in bars) == sorted(j.id for j in demo_plan.day.jobs)
-    bar = view.job_bar(demo_plan.day.jobs[0].id)
-    assert demo_plan.day.jobs[0].id in bar.toolTip()
+
+
+def test_rows_are_drawn_as_they_come_into_view(view):
+    # A day of many vehicles shows at once: only the rows in view (and a screen
+    # more each way) have items; scrolling down draws the rest.
+    from tests.support.days import regional_day
+    plan = solve_day(regional_day(1500, 60, seed=5), least_deadhead=False)
+    view.set_plan(plan)
+    drawn = {i.job_id for i in view.scene().items() if isinstance(i, JobBar)}
+    assert 0 < len(drawn) < plan.day.n / 2
+    last = plan.route_ids()[-1][0]
+    assert last not in drawn
+    view.verticalScrollBar().setValue(view.verticalScrollBar().maximum())
+    assert last in {i.job_id for i in view.scene().items() if isinstance(i, JobBar)}
+    texts = {i.text() for i in view.scene().items() if hasattr(i, "text")}
+    assert f"Vehicle {plan.vehicles}" in texts
 
 
 def test_empty_driving_legs_are_drawn(view):

@@ -296,6 +296,10 @@ class AnswerBar(QFrame):
         note = "" if plan.verified else "  The independent check FAILED."
         took = f"solved in {seconds * 1000:.0f} ms" if seconds < 10 \
             else f"solved in {seconds:.0f} s"
+        if plan.deadhead_note:
+            note += f"  {plan.deadhead_note}"
+            self.deadhead.caption.setText("empty driving (not the least: time limit)")
+            self.deadhead.setToolTip(plan.deadhead_note)
         # No-break spaces: a narrow bar wraps between the parts, not inside them.
         parts = ("Up to date", count(plan.day.n, "job"), took)
         self.status.setText(" · ".join(p.replace(" ", "\u00a0") for p in parts) + note
@@ -327,6 +331,15 @@ class AnswerBar(QFrame):
         self.deadhead.value.setText("–")
         self._show_tradeoff(None)
         self.deadhead.caption.setText("empty driving, once the search ends")
+
+    def show_fleet(self, plan: Plan, seconds: float) -> None:
+        """The fleet and its proof, while the routes with the least empty driving
+        are still being found (the solve goes on: busy)."""
+        self.vehicles.value.setText(str(plan.vehicles))
+        self.deadhead.value.setText("…")
+        self._show_tradeoff(None)
+        self.set_busy(True, f"fleet and proof in {seconds * 1000:.0f} ms; finding the routes "
+                      "with the least empty driving")
 
     def _show_tradeoff(self, plan: Plan | None) -> None:
         """The least-for-this-fleet note, the one-more-vehicle line and the list;

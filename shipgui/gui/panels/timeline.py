@@ -1,9 +1,15 @@
-"""The timeline: one row per vehicle, a bar per job, thin bars for empty driving."""
+"""The timeline: one row per vehicle, a bar per job, thin bars for empty driving.
+
+Rows are drawn when they come into view (and a few ahead each way), so a
+day of thousands of vehicles shows at once and the window never waits for
+items nobody sees; asking for a job's bar draws its row.
+"""
 
 from __future__ import annotations
 
 import math
 
+import numpy as np
 from PySide6.QtCore import QRectF, Qt, Signal
 from PySide6.QtGui import QBrush, QColor, QFont, QFontMetricsF, QPainter, QPen
 from PySide6.QtWidgets import (
@@ -16,8 +22,9 @@ from PySide6.QtWidgets import (
 
 from shipgui.core import Plan
 from shipgui.core.clock import format_day_clock, format_duration
-from shipgui.core.fleet.schedule import vehicle_days
-from shipgui.core.workday.explain import format_limit, shown_day_minutes
+from shipgui.core.fleet.schedule import vehicle_day
+
+from .timeline_text import bar_label, drive_tooltip, job_tooltip, working_day_tooltip
 
 __all__ = ["TimelineView", "JobBar", "COLOURS"]
 
@@ -49,6 +56,7 @@ COLOURS = {
     "limit": QColor("#b5533c"),  # where the limit would end the working day
 }
 WORKDAY_HEIGHT = 3  # the working-day band under the bars
+ROWS_AHEAD = 4  # rows drawn beyond the view each way, so a small scroll finds them ready
 
 
 class JobBar(QGraphicsRectItem):
@@ -95,11 +103,15 @@ class TimelineView(QGraphicsView):
         self._highlight_certificate = False
         self._moves: dict[str, int] = {}  # job id -> seconds, a suggestion shown
         self._bars: dict[str, JobBar] = {}
+        self._row_of: dict[str, int] = {}  # job id -> row of its vehicle, made on first need
+        self._drawn: set[int] = set()  # rows whose items exist
+        self._label_panel: QGraphicsItem | None = None
+        self._certificate_ids: set[str] | None = None
+        self._bar_font_cache: tuple[QFont, QFontMetricsF] | None = None
         self._pinned_labels: list[QGraphicsItem] = []
         self._pinned_axis: list[QGraphicsItem] = []
-        self._t0 = 0
+        self._t0 = self._t1 = 0
         self._label_width = LABEL_WIDTH
-        self._days: list = []  # the plan's vehicle days (core.fleet.schedule), when shown
         self._quiet = False
         self._message = "No plan yet."
         self.scene().selectionChanged.connect(self._on_selection)
@@ -135,6 +147,7 @@ class TimelineView(QGraphicsView):
         self.select_jobs([job_id for job_id, _ in moves])
 
     def job_bar(self, job_id: str) -> JobBar | None:
+        self._draw_rows_of([job_id])
         return self._bars.get(job_id)
 
     def selected_job(self) -> str | None:
@@ -152,6 +165,7 @@ class TimelineView(QGraphicsView):
         self._quiet = True
         try:
             self.scene().clearSelection()
+            self._draw_rows_of(job_ids)
             bars = [self._bars[j] for j in job_ids if j in self._bars]
             for bar in bars:
                 bar.setSelected(True)
@@ -228,9 +242,13 @@ class TimelineView(QGraphicsView):
         plan = self._plan
         day = plan.day
         lo, hi = int(day.start.min()), int(day.end.max())
-        for v in self._days:  # the shared vehicle days: drives out and back included
-            lo, hi = min(lo, v.day_start), max(hi, v.day_end)
         s = day.settings
+        if s.depot is not None:  # the vehicle days: leaving the depot, being back
+            d = day.site_index[s.depot]
+            first = np.fromiter((r[0] for r in plan.routes), np.int64, len(plan.routes))
+            last = np.fromiter((r[-1] for r in plan.routes), np.int64, len(plan.routes))
+            lo = min(lo, int((day.start[first] - day.travel[d, day.origin[first]]).min()))
+            hi = max(hi, int((day.end[last] + day.travel[day.destination[last], d]).max()))
         for t in (s.day_start, s.day_end):
             if t is not None:
                 lo, hi = min(lo, t), max(hi, t)
@@ -246,7 +264,8 @@ class TimelineView(QGraphicsView):
         self._quiet = True
         scene.clear()
         self._quiet = False
-        self._bars = {}
+        self._bars, self._row_of, self._drawn = {}, {}, set()
+        self._label_panel, self._certificate_ids = None, None
         self._pinned_labels, self._pinned_axis = [], []
         if self._plan is None or not self._plan.routes:
             text = scene.addSimpleText(self._message)
@@ -254,31 +273,57 @@ class TimelineView(QGraphicsView):
             text.setPos(16, 16)
             scene.setSceneRect(0, 0, 400, 80)
             return
-        self._days = vehicle_days(self._plan)
         self._t0, t1 = self._span()
         rows = len(self._plan.routes)
         self._label_width = self._measure_labels(rows)
         width = self._x(t1) + 16
         height = AXIS_HEIGHT + rows * ROW_HEIGHT + 8
         scene.setSceneRect(0, 0, width, height)
-        self._draw_rows(rows, width)
+        self._t1 = t1
         self._draw_hours(t1, height)
         self._draw_day_limits(height)
-        limit = self._plan.day.settings.max_day
-        for k, vehicle in enumerate(self._days):
-            self._draw_route(k, vehicle)
-            if limit is not None:
-                self._draw_working_day(k, vehicle, limit, t1)
-        self._draw_labels(rows, height)
-        self._colour_bars()
-        self._pin()
+        self._draw_label_panel(height)
+        self._pin()  # draws the rows in view
 
-    def _draw_rows(self, rows: int, width: float) -> None:
-        no_pen = QPen(Qt.PenStyle.NoPen)
-        for k in range(rows):
-            if k % 2:
-                self.scene().addRect(QRectF(0, AXIS_HEIGHT + k * ROW_HEIGHT, width, ROW_HEIGHT),
-                                     no_pen, QBrush(COLOURS["stripe"])).setZValue(-2)
+    def _draw_rows_in_view(self) -> None:
+        """Draw the rows in view and a few more above and below."""
+        if self._plan is None or not self._plan.routes or self._label_panel is None:
+            return
+        top = self.mapToScene(0, 0).y()
+        bottom = self.mapToScene(0, self.viewport().height()).y()
+        first = int((top - AXIS_HEIGHT) // ROW_HEIGHT) - ROWS_AHEAD
+        last = int((bottom - AXIS_HEIGHT) // ROW_HEIGHT) + ROWS_AHEAD
+        for k in range(max(0, first), min(len(self._plan.routes), last + 1)):
+            self._draw_row(k)
+
+    def _draw_rows_of(self, job_ids) -> None:
+        if self._plan is None or self._label_panel is None:
+            return
+        if not self._row_of:
+            jobs = self._plan.day.jobs
+            self._row_of = {jobs[j].id: k for k, route in enumerate(self._plan.routes)
+                            for j in route}
+        for job_id in job_ids:
+            row = self._row_of.get(job_id)
+            if row is not None:
+                self._draw_row(row)
+
+    def _draw_row(self, k: int) -> None:
+        """The stripe, the vehicle's day and its name on row k (once)."""
+        if k in self._drawn:
+            return
+        self._drawn.add(k)
+        if k % 2:
+            self.scene().addRect(QRectF(0, AXIS_HEIGHT + k * ROW_HEIGHT,
+                                        self.scene().sceneRect().width(), ROW_HEIGHT),
+                                 QPen(Qt.PenStyle.NoPen),
+                                 QBrush(COLOURS["stripe"])).setZValue(-2)
+        vehicle = vehicle_day(self._plan, k + 1)
+        self._draw_route(k, vehicle)
+        limit = self._plan.day.settings.max_day
+        if limit is not None:
+            self._draw_working_day(k, vehicle, limit, self._t1)
+        self._draw_label(k)
 
     def _draw_hours(self, t1: int, height: float) -> None:
         scene = self.scene()
@@ -321,21 +366,20 @@ class TimelineView(QGraphicsView):
             leg = scene.addRect(QRectF(self._x(drive.start), leg_y,
                                        drive.seconds / 3600 * self._px_per_hour, LEG_HEIGHT),
                                 QPen(Qt.PenStyle.NoPen), leg_brush)
-            leg.setToolTip(_drive_tooltip(day, drive))
+            leg.setToolTip(drive_tooltip(day, drive))
             leg.setZValue(1)
-        font = QFont()
-        font.setPointSizeF(max(7.0, font.pointSizeF() - 1))
-        metrics = QFontMetricsF(font)
+        font, metrics = self._bar_font()
         for j in vehicle.jobs:
             job = day.jobs[j]
             rect = QRectF(self._x(job.start), y, (job.end - job.start) / 3600
                           * self._px_per_hour, BAR_HEIGHT)
             if job.id in self._moves:
                 self._draw_ghost(job, self._moves[job.id], y)
-            bar = JobBar(rect, job.id, _job_tooltip(day, job))
+            bar = JobBar(rect, job.id, job_tooltip(day, job))
+            bar.base_brush = QBrush(self._bar_colour(job.id))
             scene.addItem(bar)
             self._bars[job.id] = bar
-            shown = _bar_label(job.id, metrics, rect.width() - 6)
+            shown = bar_label(job.id, metrics, rect.width() - 6)
             if shown:
                 text = QGraphicsSimpleTextItem(shown, bar)
                 text.setFont(font)
@@ -363,7 +407,7 @@ class TimelineView(QGraphicsView):
         y = AXIS_HEIGHT + (k + 1) * ROW_HEIGHT - WORKDAY_HEIGHT - 1
         start, end = vehicle.day_start, vehicle.day_end
         stop = min(start + limit, t1)  # beyond the drawn hours the mark is left out
-        tip = _working_day_tooltip(vehicle, limit)
+        tip = working_day_tooltip(vehicle, limit)
         room = scene.addRect(QRectF(self._x(end), y, max(0.0, self._x(stop) - self._x(end)),
                                     WORKDAY_HEIGHT), no_pen, QBrush(COLOURS["workday_room"]))
         used = scene.addRect(QRectF(self._x(start), y, self._x(end) - self._x(start),
@@ -378,56 +422,69 @@ class TimelineView(QGraphicsView):
             mark.setToolTip(tip)
             mark.setZValue(1)
 
+    def _bar_font(self) -> tuple[QFont, QFontMetricsF]:
+        """The job ids' font (a point smaller) and its metrics, made once."""
+        if self._bar_font_cache is None:
+            font = QFont()
+            font.setPointSizeF(max(7.0, font.pointSizeF() - 1))
+            self._bar_font_cache = (font, QFontMetricsF(font))
+        return self._bar_font_cache
+
     def _label(self, k: int) -> str:
         name = self._names.get(k + 1, "")
         return f"Vehicle {k + 1}" + (f" · {name}" if name else "")
 
     def _measure_labels(self, rows: int) -> float:
         metrics = QFontMetricsF(QFont())
-        widest = max(metrics.horizontalAdvance(self._label(k)) for k in range(rows))
+        # Unnamed rows read "Vehicle N": the last one is the widest of them.
+        named = [k - 1 for k in self._names if 0 < k <= rows]
+        widest = max(metrics.horizontalAdvance(self._label(k)) for k in [rows - 1, *named])
         return min(MAX_LABEL_WIDTH, max(LABEL_WIDTH, widest + 22))
 
-    def _draw_labels(self, rows: int, height: float) -> None:
+    def _draw_label(self, k: int) -> None:
+        metrics = QFontMetricsF(QFont())
+        text = metrics.elidedText(self._label(k), Qt.TextElideMode.ElideRight,
+                                  self._label_width - 16)
+        label = QGraphicsSimpleTextItem(text, self._label_panel)
+        label.setBrush(QBrush(COLOURS["label"]))
+        label.setPos(6, AXIS_HEIGHT + k * ROW_HEIGHT + (ROW_HEIGHT - metrics.height()) / 2)
+
+    def _draw_label_panel(self, height: float) -> None:
         scene = self.scene()
         panel = scene.addRect(QRectF(0, 0, self._label_width - 6, height),
                               QPen(COLOURS["grid"]), QBrush(QColor("#ffffff")))
         panel.setZValue(6)
         panel.setToolTip("Double-click a vehicle to type its driver's name")
+        self._label_panel = panel
         self._pinned_labels.append(panel)
-        metrics = QFontMetricsF(QFont())
-        for k in range(rows):
-            text = metrics.elidedText(self._label(k), Qt.TextElideMode.ElideRight,
-                                      self._label_width - 16)
-            label = QGraphicsSimpleTextItem(text, panel)
-            label.setBrush(QBrush(COLOURS["label"]))
-            y = AXIS_HEIGHT + k * ROW_HEIGHT + (ROW_HEIGHT - metrics.height()) / 2
-            label.setPos(6, y)
         corner = scene.addRect(QRectF(0, 0, self._label_width - 6, AXIS_HEIGHT),
                                QPen(Qt.PenStyle.NoPen), QBrush(COLOURS["axis"]))
         corner.setZValue(7)
         self._pinned_labels.append(corner)
         self._pinned_axis.append(corner)
 
+    def _bar_colour(self, job_id: str) -> QColor:
+        if job_id in self._moves:
+            return COLOURS["moved"]
+        if not self._highlight_certificate:
+            return COLOURS["job"]
+        if self._certificate_ids is None:  # the proof's jobs: pairwise, and any weighted
+            jobs = self._plan.day.jobs
+            self._certificate_ids = set(self._plan.certificate_ids()) | {
+                jobs[k].id for k, w in self._plan.certificate_weights if w > 0}
+        return COLOURS["certificate" if job_id in self._certificate_ids else "muted"]
+
     def _colour_bars(self) -> None:
         if self._plan is None:
             return
-        certificate = set()
-        if self._highlight_certificate:  # the proof's jobs: pairwise, and any weighted
-            jobs = self._plan.day.jobs
-            certificate = set(self._plan.certificate_ids()) | {
-                jobs[k].id for k, w in self._plan.certificate_weights if w > 0}
         for job_id, bar in self._bars.items():
-            if job_id in self._moves:
-                colour = COLOURS["moved"]
-            elif not self._highlight_certificate:
-                colour = COLOURS["job"]
-            else:
-                colour = COLOURS["certificate"] if job_id in certificate else COLOURS["muted"]
-            bar.base_brush = QBrush(colour)
+            bar.base_brush = QBrush(self._bar_colour(job_id))
             bar.update()
 
     def _pin(self, *_args) -> None:
-        """Keep the vehicle names and the hour axis in view while scrolling."""
+        """Keep the vehicle names and the hour axis in view while scrolling, and
+        draw the rows that come into view."""
+        self._draw_rows_in_view()
         top_left = self.mapToScene(0, 0)
         for item in self._pinned_labels:
             item.setX(max(0.0, top_left.x()))
@@ -440,42 +497,3 @@ class TimelineView(QGraphicsView):
         job_id = self.selected_job()
         if job_id is not None:
             self.job_selected.emit(job_id)
-
-
-def _drive_tooltip(day, drive) -> str:
-    if drive.kind == "back":
-        return f"Empty drive back to the depot, {format_duration(drive.seconds)}"
-    origin = "the depot" if drive.kind == "out" else day.site_label(drive.origin)
-    return (f"Empty drive {format_duration(drive.seconds)} from {origin} "
-            f"to {day.site_label(drive.destination)}")
-
-
-def _working_day_tooltip(vehicle, limit: int) -> str:
-    """'Working day 10 h 32 min (05:40–16:12), limit 11 h: 28 min to spare'."""
-    length = shown_day_minutes(vehicle.day_start, vehicle.day_end)
-    spare = limit // 60 - length
-    room = f"{format_duration(spare * 60)} to spare" if spare > 0 else "no time to spare"
-    return (f"Vehicle {vehicle.vehicle}: working day {format_duration(length * 60)} "
-            f"({format_day_clock(vehicle.day_start - vehicle.day_start % 60)}–"
-            f"{format_day_clock(-(-vehicle.day_end // 60) * 60)}), limit "
-            f"{format_limit(limit)}: {room}")
-
-
-def _bar_label(job_id: str, metrics: QFontMetricsF, room: float) -> str:
-    """The id if it fits, else its end ("…0141": ids of a day usually differ at the
-    end), else nothing; zooming in makes room for the whole id."""
-    if metrics.horizontalAdvance(job_id) <= room:
-        return job_id
-    shown = metrics.elidedText(job_id, Qt.TextElideMode.ElideLeft, room)
-    kept = len(shown) - 1  # characters besides the ellipsis
-    return shown if kept >= min(3, len(job_id) - 1) and shown.startswith("…") else ""
-
-
-def _job_tooltip(day, job) -> str:
-    lines = [f"{job.id}: {format_day_clock(job.start)}–{format_day_clock(job.end)}",
-             f"{day.site_label(job.origin)} → {day.site_label(job.destination)}"]
-    if job.customer:
-        lines.append(job.customer)
-    if job.notes:
-        lines.append(job.notes)
-    return "\n".join(lines)
