@@ -2,6 +2,7 @@
 
     python tests/benchmarks/bench_solve.py [--sizes 1000 10000 20000 50000] [--no-networkx]
     python tests/benchmarks/bench_solve.py --least-deadhead [1000 10000 20000]
+    python tests/benchmarks/bench_solve.py --whole [50000 200000]
 
 Each size runs in its own process so the peak memory (max RSS) is that size's
 alone.  The first form prints per-stage seconds of the default solve (fleet +
@@ -10,6 +11,8 @@ straightforward networkx route for the fleet side by side, then the whole
 `shipgui solve` process on a 10 000-job day written to CSV.  The second form
 times the least-empty-driving plan against scipy's sparse assignment on all
 compatible pairs (same optimum asserted), with and without the trade-off.
+The third times the whole `shipgui solve` process (seconds and peak memory)
+on days written to CSV, with the default options.
 """
 
 from __future__ import annotations
@@ -28,7 +31,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
-SITES = {1000: 100, 2000: 120, 500: 60, 10000: 200, 20000: 300, 50000: 300}
+SITES = {1000: 100, 2000: 120, 500: 60, 10000: 200, 20000: 300, 50000: 300, 200000: 200}
 
 
 def one_size(n: int) -> dict:
@@ -130,30 +133,68 @@ def straightforward_assignment(n: int) -> dict:
             "peak_mb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024}
 
 
-def whole_process(n: int = 10000) -> float:
+def _write_day(n: int, folder: Path) -> tuple[Path, Path]:
     from tests.support.days import regional_day
-    day = regional_day(n, SITES[n], seed=n)
+    day = regional_day(n, SITES.get(n, 200), seed=n)
+    jobs, sites = Path(folder, "jobs.csv"), Path(folder, "sites.csv")
+    with open(jobs, "w", newline="") as f:
+        w = csv.writer(f)
+        w.writerow(["job", "origin", "destination", "start", "end"])
+        for j in day.jobs:
+            w.writerow([j.id, j.origin, j.destination, f"{j.start // 3600:02d}:"
+                        f"{j.start % 3600 // 60:02d}", f"{j.end // 3600:02d}:"
+                        f"{j.end % 3600 // 60:02d}"])
+    with open(sites, "w", newline="") as f:
+        w = csv.writer(f)
+        w.writerow(["site", "x_km", "y_km"])
+        for s in day.sites.values():
+            w.writerow([s.id, s.x_km, s.y_km])
+    return jobs, sites
+
+
+# The whole `shipgui solve` process, reporting its own peak memory at the end.
+_SOLVE = ("import resource, sys; from shipgui.cli import main; code = main(sys.argv[1:]); "
+          "print('PEAK_KB', resource.getrusage(resource.RUSAGE_SELF).ru_maxrss, "
+          "file=sys.stderr); sys.exit(code)")
+
+
+def whole_process(n: int = 10000, *extra: str) -> dict:
+    """Seconds and peak memory of `shipgui solve` on an n-job day written to CSV
+    (kernels compiled beforehand, as after the first start)."""
     with tempfile.TemporaryDirectory() as tmp:
-        jobs, sites = Path(tmp, "jobs.csv"), Path(tmp, "sites.csv")
-        with open(jobs, "w", newline="") as f:
-            w = csv.writer(f)
-            w.writerow(["job", "origin", "destination", "start", "end"])
-            for j in day.jobs:
-                w.writerow([j.id, j.origin, j.destination, f"{j.start // 3600:02d}:"
-                            f"{j.start % 3600 // 60:02d}", f"{j.end // 3600:02d}:"
-                            f"{j.end % 3600 // 60:02d}"])
-        with open(sites, "w", newline="") as f:
-            w = csv.writer(f)
-            w.writerow(["site", "x_km", "y_km"])
-            for s in day.sites.values():
-                w.writerow([s.id, s.x_km, s.y_km])
-        cmd = [sys.executable, "-m", "shipgui", "solve", str(jobs), "--sites", str(sites),
-               "--turnaround", "10", "--json", str(Path(tmp, "plan.json"))]
+        jobs, sites = _write_day(n, Path(tmp))
+        cmd = [sys.executable, "-c", _SOLVE, "solve", str(jobs), "--sites", str(sites),
+               "--turnaround", "10", "--json", str(Path(tmp, "plan.json")), "--verbose", *extra]
         env = dict(os.environ, PYTHONPATH=str(ROOT))
-        subprocess.run(cmd, check=True, capture_output=True, env=env)  # warm the caches
+        subprocess.run([sys.executable, "-m", "shipgui", "demo"], check=True,
+                       capture_output=True, env=env)  # compiled kernels in the cache
         t = time.perf_counter()
-        subprocess.run(cmd, check=True, capture_output=True, env=env)
-        return time.perf_counter() - t
+        out = subprocess.run(cmd, check=True, capture_output=True, env=env, text=True)
+        seconds = time.perf_counter() - t
+        plan = json.loads(Path(tmp, "plan.json").read_text())
+    peak = int(out.stderr.split("PEAK_KB")[-1].split()[0]) / 1024
+    stages = {line.split("  ")[0].strip(): float(line.split()[-2]) / 1000
+              for line in out.stdout.splitlines()
+              if line.startswith("  ") and line.rstrip().endswith(" ms")}
+    return {"n": n, "seconds": seconds, "peak_mb": peak, "vehicles": plan["vehicles"],
+            "least_deadhead": plan["least_deadhead"], "verified": plan["verified"],
+            "stages": stages}
+
+
+def print_whole(sizes: list[int]) -> None:
+    print("whole `shipgui solve` process (CSV in, JSON out, default options: least empty "
+          "driving with a trade-off of 5, stopped after 120 s):")
+    for n in sizes:
+        r = whole_process(n)
+        st = r["stages"]
+        fleet = sum(v for k, v in st.items() if k in ("relation", "matching", "routes",
+                                                       "verification"))
+        print(f"{n:>7} jobs: {r['seconds']:7.1f} s, peak {r['peak_mb']:6.0f} MB, "
+              f"{r['vehicles']} vehicles; reading {st.get('reading and checking input', 0):.1f}"
+              f" s, fleet {fleet:.1f} s, least empty driving "
+              f"{st.get('least deadhead', 0):.1f} s"
+              + ("" if r["least_deadhead"] else " (stopped at the time limit)")
+              + ("" if r["verified"] else "  NOT VERIFIED"), flush=True)
 
 
 def main() -> None:
@@ -163,10 +204,16 @@ def main() -> None:
     ap.add_argument("--networkx-timeout", type=float, default=900)
     ap.add_argument("--least-deadhead", type=int, nargs="*", default=None, metavar="N",
                     help="only benchmark the least-empty-driving plan at these sizes")
+    ap.add_argument("--whole", type=int, nargs="*", default=None, metavar="N",
+                    help="only time the whole `shipgui solve` process at these sizes "
+                    "(default 50000 200000)")
     ap.add_argument("--assignment-limit", type=int, default=20000, metavar="N",
                     help="run the all-pairs scipy reference up to this size (default 20000; "
                     "it needs about 6 GB at 20 000 jobs)")
     args = ap.parse_args()
+    if args.whole is not None:
+        print_whole(args.whole or [50000, 200000])
+        return
     if args.least_deadhead is not None:
         bench_least_deadhead(args.least_deadhead or [1000, 10000, 20000], args.assignment_limit)
         return
@@ -200,7 +247,8 @@ def main() -> None:
             print(f"{n:>6} jobs: networkx {ref['total_s']:.2f} s, shipgui "
                   f"{ours['total_s']:.4f} s, ratio {ref['total_s'] / ours['total_s']:.0f}x "
                   f"(both {ours['vehicles']} vehicles)", flush=True)
-    print(f"\nwhole `shipgui solve` process, 10 000 jobs: {whole_process():.2f} s")
+    print()
+    print_whole([10000])
 
 
 def bench_least_deadhead(sizes: list[int], assignment_limit: int) -> None:
