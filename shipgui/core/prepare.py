@@ -78,7 +78,8 @@ def warm(family: str) -> None:
     excess = np.zeros(net.nodes, dtype=np.int64)
     stop = np.zeros(1, dtype=np.int64)
     if family == "cost scaling":
-        cost_scaling(net.residual, cap, excess, price, 0, least._ALPHA, least._ALPHA, stop)
+        cost_scaling(net.residual, cap, excess, price, 0, least._ALPHA, least._ALPHA, stop,
+                     np.ones(1, dtype=np.int64))
     else:
         tighten_prices(net.residual, cap, price)
         repair(net.residual, cap, price, excess, stop)

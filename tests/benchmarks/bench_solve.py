@@ -173,7 +173,7 @@ def whole_process(n: int = 10000, *extra: str) -> dict:
         seconds = time.perf_counter() - t
         plan = json.loads(Path(tmp, "plan.json").read_text())
     peak = int(out.stderr.split("PEAK_KB")[-1].split()[0]) / 1024
-    stages = {line.split("  ")[0].strip(): float(line.split()[-2]) / 1000
+    stages = {line[:30].strip(): float(line.split()[-2]) / 1000
               for line in out.stdout.splitlines()
               if line.startswith("  ") and line.rstrip().endswith(" ms")}
     return {"n": n, "seconds": seconds, "peak_mb": peak, "vehicles": plan["vehicles"],

@@ -210,13 +210,15 @@ def _has_admissible(net, cap, price, current, v):
 
 
 @jit
-def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop):
+def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached):
     """Route all ``excess`` (supplies > 0, demands < 0; sums to zero) at least cost.
 
     ``cap``, ``excess`` and ``price`` are changed in place (excess ends all
     zero).  The start must be ``eps``-optimal for ``price`` (eps <= 0: the
     largest absolute cost, right for any start with zero prices).  The first
-    phase divides eps by ``first_alpha``, the others by ``alpha``.  Returns
+    phase divides eps by ``first_alpha``, the others by ``alpha``; the last
+    phase is the first with eps <= ``reached[0]`` (1: optimal), and ``reached[0]``
+    is then set to that eps (the flow is eps-optimal for the prices).  Returns
     DONE, or NO_ROUTE when the supplies cannot be routed: then some price
     falls further than a refine can move it when a routing exists (Goldberg &
     Tarjan 1990: from an eps'-optimal start, by at most about (eps' + eps) *
@@ -314,8 +316,9 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop):
                     relabels = 0
                     for w in range(n):
                         current[w] = first[w]
-        if eps == 1:
+        if eps <= reached[0]:
             break
+    reached[0] = eps
     return DONE
 
 

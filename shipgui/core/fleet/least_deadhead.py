@@ -63,6 +63,7 @@ _WARM_DIV = 1024  # a warm start begins near the final precision
 _MARGIN_PERCENT = 5  # also price in arcs within 5 % of the worst violation (fewer rounds)
 _REPAIR_LIMIT = 100  # arcs priced in at once: re-optimise by shortest paths up to this
 _CANDIDATE_GROUPS = 12  # first round: link arcs from each successor's cheapest groups
+_COARSE_SECONDS = 60  # first round solved only to within this per arc: enough to price
 _BLOCK_CELLS = 1 << 22  # (job, group) cells worked on at once when choosing them
 
 
@@ -333,16 +334,23 @@ class _PricedFlow:
         excess = np.zeros(len(self.price), dtype=np.int64)
         excess[self.net.source] = links
         excess[self.net.sink] = -links
-        self._scale(excess, 0)  # from scratch on the first arcs
+        self.eps = 0
+        self._scale(excess, 0, coarse=True)  # from scratch on the first arcs
         self._price_in()
 
-    def _scale(self, excess: np.ndarray, eps: int) -> None:
+    def _scale(self, excess: np.ndarray, eps: int, *, coarse: bool = False) -> None:
+        """Cost scaling from an eps-optimal start (eps <= 0: from scratch) down to
+        optimal with exact prices, or, ``coarse``, only to within _COARSE_SECONDS
+        per arc: good enough prices to choose the arcs to add (self.eps > 0)."""
         net = self.net
         self.rounds += 1
+        reached = np.array([max(1, _COARSE_SECONDS * net.scale) if coarse else 1],
+                           dtype=np.int64)
         status = cost_scaling(net.residual, self.cap, excess, self.price, eps, _ALPHA,
-                              _ALPHA if eps <= 0 else _WARM_DIV, self.stop)
+                              _ALPHA if eps <= 0 else _WARM_DIV, self.stop, reached)
         self._done(status, "the matching's links could not be routed")
-        if not tighten_prices(net.residual, self.cap, self.price):
+        self.eps = int(reached[0]) if coarse else 0
+        if not coarse and not tighten_prices(net.residual, self.cap, self.price):
             raise RuntimeError("least-deadhead flow is not optimal (negative cycle)")
 
     def _price_in(self) -> None:
@@ -352,12 +360,15 @@ class _PricedFlow:
         while True:
             self.check()
             priced = self._priced_out()
-            if priced is None:
-                return
-            violation, count = priced
             zero = np.zeros(len(self.price), dtype=np.int64)
-            if count > self.repair_limit:
-                self._scale(zero, violation)
+            if priced is None:
+                if self.eps == 0:
+                    return
+                self._scale(zero, self.eps)  # finish the coarse flow exactly
+                continue
+            violation, count = priced
+            if self.eps > 0 or count > self.repair_limit:
+                self._scale(zero, max(violation, self.eps))
                 continue
             self.rounds += 1
             net, cap = self.net, self.cap

@@ -190,7 +190,9 @@ class _Flow:
             else self.arcs.supply.copy()
         self.started = True
         never = np.zeros(1, dtype=np.int64)  # no stop flag: this stage is not bounded
-        if cost_scaling(res, self.cap, excess, price, 0, _ALPHA, _ALPHA, never) != DONE:
+        optimal = np.ones(1, dtype=np.int64)  # down to eps 1: optimal
+        if cost_scaling(res, self.cap, excess, price, 0, _ALPHA, _ALPHA, never,
+                        optimal) != DONE:
             raise RuntimeError("vehicle-limit flow: the vehicles could not be routed")
         if not tighten_prices(res, self.cap, price):
             raise RuntimeError("vehicle-limit flow is not optimal (negative cycle)")
