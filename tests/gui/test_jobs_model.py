@@ -109,6 +109,20 @@ def test_vehicle_column_follows_the_plan(setup):
     assert model.index(0, Column.VEHICLE).data() == ""
 
 
+def test_a_new_plan_re_sorts_and_re_filters_by_vehicle(setup):
+    # set_plan names the roles it changes (so a 10 000-job plan shows in
+    # milliseconds); sorting and filtering by the vehicle column still follow it.
+    doc, _stack, model, proxy, _t = setup
+    plan = solve_day(doc.build())
+    proxy.sort(Column.VEHICLE, Qt.SortOrder.DescendingOrder)
+    model.set_plan(plan)
+    shown = [proxy.index(r, Column.VEHICLE).data() for r in range(4)]
+    assert shown == sorted(shown, key=int, reverse=True) and shown[0] == "2"
+    lonely = next(r for r in range(4) if model.index(r, Column.JOB).data() == "J3")
+    proxy.setFilterFixedString(model.index(lonely, Column.VEHICLE).data())
+    assert "J3" in {proxy.index(r, Column.JOB).data() for r in range(proxy.rowCount())}
+
+
 def test_filter_and_sort(setup):
     _doc, _stack, _model, proxy, _t = setup
     proxy.setFilterFixedString("j3")

@@ -202,6 +202,7 @@ class JobsModel(QAbstractTableModel):
     def set_plan(self, plan: Plan | None) -> None:
         """Show which vehicle the plan gives each job, and mark the jobs it cannot
         serve with the vehicles available (by job id)."""
+        before = self._not_served
         self._vehicle_of, self._not_served = {}, {}
         if plan is not None:
             for k, route in enumerate(plan.routes, start=1):
@@ -211,9 +212,21 @@ class JobsModel(QAbstractTableModel):
                 reasons = unserved_reasons(plan.day, plan.shortfall)
                 self._not_served = {plan.day.jobs[k].id: reasons.get(k, "")
                                     for k in plan.shortfall.unserved}
-        if self.rowCount():
-            self.dataChanged.emit(self.index(0, 0),
-                                  self.index(self.rowCount() - 1, len(Column) - 1))
+        if not self.rowCount():
+            return
+        # Only what changed: the vehicle column, and the whole rows of jobs whose
+        # "not served" mark came or went (the sorting proxy maps a change of all
+        # rows and columns piece by piece: a third of a second at 10 000 jobs).
+        role = Qt.ItemDataRole
+        self.dataChanged.emit(self.index(0, Column.VEHICLE),
+                              self.index(self.rowCount() - 1, Column.VEHICLE),
+                              [role.DisplayRole, role.EditRole, JobRole.SORT,
+                               role.BackgroundRole, role.ToolTipRole])
+        marked = set(before) ^ set(self._not_served)
+        for row, job in enumerate(self._document.jobs):
+            if job.id in marked:
+                self.dataChanged.emit(self.index(row, 0), self.index(row, len(Column) - 1),
+                                      [role.BackgroundRole, role.ToolTipRole])
 
     # ------------------------------------------------------------ document changes
     def _on_change(self, change: Change, done: bool) -> None:
