@@ -25,7 +25,9 @@ for multi-depot bus scheduling", EJOR 175, 2006):
 Every flow path source -> i -> ... -> j' -> sink is a compatible link i -> j
 at its exact cost, and every set of links is such a flow, so the optimum is
 the optimum over all O(n^2) compatible pairs while the network has only
-O(n * sites) arcs.  It is solved by cost scaling (:mod:`._flow_kernel`).
+O(n * sites) arcs.  It is solved by cost scaling (:mod:`._flow_kernel`), first
+roughly on each successor's cheapest groups, to choose the arcs to add, then
+exactly.
 
 The trade-off then takes one unit of flow off at a time along a cheapest
 residual path: successive shortest paths in reverse give the least link cost
