@@ -64,7 +64,8 @@ def app_child(mode: str, n: int) -> dict:
 
     app = make_application()
     folder = tempfile.mkdtemp()
-    window = MainWindow(AppSettings.at_path(Path(folder, "settings.ini")), solve_delay_ms=0)
+    # the app's own debounce of edits (80 ms): what a dispatcher waits for
+    window = MainWindow(AppSettings.at_path(Path(folder, "settings.ini")))
     window.resize(1400, 820)
     window.show()
     result: dict = {}

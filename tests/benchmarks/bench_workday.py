@@ -124,7 +124,7 @@ def compact_mip(n: int, seed: int, hours: int, time_limit: float = 60.0) -> dict
     plan = None if result.x is None else n - int(round(-result.fun))
     bound = getattr(result, "mip_dual_bound", None)
     return {"n": n, "seed": seed, "hours": hours, "arcs": arcs, "vehicles": plan,
-            "bound": None if bound is None else n + int(np.ceil(bound - 1e-6)),
+            "bound": None if bound is None else max(0, n + int(np.ceil(bound - 1e-6))),
             "status": result.message, "total_s": time.perf_counter() - t}
 
 

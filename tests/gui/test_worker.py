@@ -190,3 +190,21 @@ def test_cancel_while_the_solver_is_prepared(qtbot):
         controller.cancel()
     assert QThreadPool.globalInstance().waitForDone(2000)  # the worker stopped waiting
     pending.finish.set()
+
+
+def test_an_edit_after_a_quiet_spell_is_solved_at_once_and_a_burst_once(qtbot):
+    # The debounce merges a burst of edits, but the first edit after a pause
+    # does not wait for it: the solve starts before the window repaints.
+    controller = SolveController(delay_ms=200)
+    with qtbot.waitSignal(controller.plan_ready, timeout=WAIT_MS):
+        controller.request(snapshot(small_document()))
+        assert not controller._timer.isActive()  # started at once, not after 200 ms
+    plans = []
+    controller.plan_ready.connect(lambda plan, _s: plans.append(plan))
+    time.sleep(0.25)  # a quiet spell longer than the debounce
+    controller.request(snapshot(small_document()))
+    controller.request(snapshot(small_document()))  # within the burst: waits
+    assert controller._timer.isActive()
+    qtbot.waitUntil(lambda: len(plans) == 1, timeout=WAIT_MS)
+    qtbot.wait(300)
+    assert len(plans) == 1  # the burst was solved once

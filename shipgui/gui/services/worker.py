@@ -175,6 +175,7 @@ class SolveController(QObject):
         self._timer.setSingleShot(True)
         self._timer.setInterval(delay_ms)
         self._timer.timeout.connect(self._start)
+        self._last_request = -1e9  # perf_counter() of the last request
         # A long solve says how long it has been at its stage, every second.
         self._stage_text = ""
         self._started_at = 0.0
@@ -191,11 +192,19 @@ class SolveController(QObject):
         return self._flag is not None or self._timer.isActive()
 
     def request(self, build: Callable[[], Day]) -> None:
-        """Solve again soon; quick bursts of edits are solved once."""
+        """Solve again: at once after a quiet spell, else when the burst of edits
+        pauses (a burst is solved once).  Starting at once, before the window
+        repaints for the edit, saves the 20-40 ms a repaint of a large day takes."""
         self._cancel_running()
         self._pending = build
-        self._timer.start()
+        quiet = not self._timer.isActive() and \
+            time.perf_counter() - self._last_request > self._timer.interval() / 1000
+        self._last_request = time.perf_counter()
         self.busy_changed.emit(True)
+        if quiet:
+            self._start()
+        else:
+            self._timer.start()
 
     def cancel(self, *, keep_search: bool = True) -> None:
         """Stop the solve in progress (the last shown plan stays, marked out of date).
