@@ -77,7 +77,7 @@ def build_certificate(plan: Plan) -> list[Flowable]:
         Paragraph(_rule_text(plan), st["body"]),
         *_at_a_glance(plan),
         *heading(f"The {size} jobs"),
-        _jobs_table(plan),
+        jobs_table(plan),
     ]
     note = day_mark_note(day, [t for k in plan.certificate
                                for t in (day.jobs[k].start, day.jobs[k].end)])
@@ -180,7 +180,7 @@ def _rule_text(plan: Plan) -> str:
             "directly cannot make it with stops on the way either.")
 
 
-def _jobs_table(plan: Plan) -> LongTable:
+def jobs_table(plan: Plan) -> LongTable:
     st = styles()
     day = plan.day
     classes = len(day.class_names) > 1
@@ -226,18 +226,9 @@ def _matrix_cell(reason: PairReason) -> str:
     return {"overlap": "ovl", "class": "cls"}.get(reason.kind, "ok")  # ok: a failed check
 
 
-def _matrix(plan: Plan, *, title: str | None = None) -> list[Flowable]:
-    """Every pair once, earlier job in the row (the list is in start order)."""
-    st = styles()
-    cert = plan.certificate
-    size = len(cert)
-    cell = min(26.0, (FRAME_WIDTH - 22) / size)
-    font_size = 7 if cell >= 19 else 6.2
-    rows = [[""] + [str(b + 1) for b in range(size)]]
-    for a in range(size):
-        rows.append([str(a + 1)] + ["" if b <= a else
-                                    _matrix_cell(pair_reason(plan.day, cert[a], cert[b]))
-                                    for b in range(size)])
+def pair_matrix(rows: list[list[str]], cell: float, font_size: float) -> LongTable:
+    """The table of every pair once (row = earlier job), shared by both proofs."""
+    size = len(rows) - 1
     table = LongTable(rows, colWidths=[22] + [cell] * size, repeatRows=1, hAlign="LEFT")
     table.setStyle(TableStyle([
         ("FONT", (0, 0), (-1, -1), FONT, font_size),
@@ -252,6 +243,22 @@ def _matrix(plan: Plan, *, title: str | None = None) -> list[Flowable]:
         ("LEFTPADDING", (0, 0), (-1, -1), 0.5),
         ("RIGHTPADDING", (0, 0), (-1, -1), 0.5),
     ] + [("BACKGROUND", (1, a + 1), (a + 1, a + 1), FAINT_GREY) for a in range(size)]))
+    return table
+
+
+def _matrix(plan: Plan, *, title: str | None = None) -> list[Flowable]:
+    """Every pair once, earlier job in the row (the list is in start order)."""
+    st = styles()
+    cert = plan.certificate
+    size = len(cert)
+    cell = min(26.0, (FRAME_WIDTH - 22) / size)
+    font_size = 7 if cell >= 19 else 6.2
+    rows = [[""] + [str(b + 1) for b in range(size)]]
+    for a in range(size):
+        rows.append([str(a + 1)] + ["" if b <= a else
+                                    _matrix_cell(pair_reason(plan.day, cert[a], cert[b]))
+                                    for b in range(size)])
+    table = pair_matrix(rows, cell, font_size)
     legend = ("How to read the table: each pair appears once, the earlier job in the row "
               "(numbers as in the list above); the later job can never go first, as it "
               "starts later. A number is how many minutes too late a vehicle would reach the "

@@ -34,12 +34,10 @@ from shipgui.core.workday.explain import (
 )
 from shipgui.core.workday.verify import check_workday_plan, heaviest_route_weight
 
-from .certificate import MATRIX_UP_TO, SENTENCES_UP_TO, _jobs_table
+from .certificate import MATRIX_UP_TO, SENTENCES_UP_TO, jobs_table, pair_matrix
 from .pages import SectionStart
 from .styles import (
     FAINT_GREY,
-    FONT,
-    FONT_BOLD,
     FRAME_WIDTH,
     LIGHT_GREY,
     grid_table_style,
@@ -163,7 +161,7 @@ def _pairwise(plan: Plan) -> list[Flowable]:
              "vehicles" + ("; the weights above prove more." if plan.certificate_weights
                            else "."))
     story = [*heading(f"The {size} jobs no two of which fit one working day"),
-             Paragraph(intro, st["body"]), _jobs_table(plan)]
+             Paragraph(intro, st["body"]), jobs_table(plan)]
     note = day_mark_note(day, [t for k in plan.certificate
                                for t in (day.jobs[k].start, day.jobs[k].end)])
     if note:
@@ -234,20 +232,7 @@ def _matrix(plan: Plan, title: str) -> list[Flowable]:
         rows.append([str(a + 1)] + ["" if b <= a else
                                     _matrix_cell(fit_reason(plan.day, cert[a], cert[b], limit))
                                     for b in range(size)])
-    table = LongTable(rows, colWidths=[22] + [cell] * size, repeatRows=1, hAlign="LEFT")
-    table.setStyle(TableStyle([
-        ("FONT", (0, 0), (-1, -1), FONT, font_size),
-        ("FONT", (0, 0), (-1, 0), FONT_BOLD, font_size),
-        ("FONT", (0, 0), (0, -1), FONT_BOLD, font_size),
-        ("ALIGN", (0, 0), (-1, -1), "CENTER"),
-        ("GRID", (0, 0), (-1, -1), 0.3, LIGHT_GREY),
-        ("BACKGROUND", (0, 0), (-1, 0), FAINT_GREY),
-        ("BACKGROUND", (0, 0), (0, -1), FAINT_GREY),
-        ("TOPPADDING", (0, 0), (-1, -1), 1.5),
-        ("BOTTOMPADDING", (0, 0), (-1, -1), 2.5),
-        ("LEFTPADDING", (0, 0), (-1, -1), 0.5),
-        ("RIGHTPADDING", (0, 0), (-1, -1), 0.5),
-    ] + [("BACKGROUND", (1, a + 1), (a + 1, a + 1), FAINT_GREY) for a in range(size)]))
+    table = pair_matrix(rows, cell, font_size)
     legend = ("How to read the table: each pair appears once, the earlier job in the row "
               "(numbers as in the list above). A number is how many minutes too late a "
               "vehicle would reach the second job after the first (rounded up; \u201ch\u201d "

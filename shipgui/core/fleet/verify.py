@@ -21,7 +21,7 @@ import numpy as np
 
 from ..model import Day
 
-__all__ = ["check_plan"]
+__all__ = ["check_plan", "triangle_failures"]
 
 
 def _follows(day: Day, i: np.ndarray, j: np.ndarray) -> np.ndarray:
@@ -29,6 +29,17 @@ def _follows(day: Day, i: np.ndarray, j: np.ndarray) -> np.ndarray:
     same_class = day.vclass[i] == day.vclass[j]
     arrive = day.end[i] + day.settings.turnaround + day.travel[day.destination[i], day.origin[j]]
     return same_class & (arrive <= day.start[j]) & (i != j)
+
+
+def triangle_failures(day: Day) -> list[str]:
+    """The travel matrix must obey the triangle inequality: then "can follow" is
+    transitive and dropping a job from a route keeps it valid (both proofs rely
+    on it).  O(sites^3) comparisons, a site at a time."""
+    t = day.travel
+    for b in range(t.shape[0]):
+        if np.any(t[:, b, None] + t[None, b, :] < t):
+            return ["travel times break the triangle inequality"]
+    return []
 
 
 def check_plan(day: Day, routes, certificate) -> list[str]:
@@ -91,11 +102,7 @@ def check_plan(day: Day, routes, certificate) -> list[str]:
             failures.append(f"vehicle {number}: a job cannot follow the one before it")
     if np.any(day.end <= day.start):
         failures.append("a job ends before it starts")
-    t = day.travel
-    for b in range(t.shape[0]):
-        if np.any(t[:, b, None] + t[None, b, :] < t):
-            failures.append("travel times break the triangle inequality")
-            break
+    failures += triangle_failures(day)
     cert = np.asarray(certificate, dtype=np.int64)
     if len(np.unique(cert)) != len(cert):
         failures.append("a certificate job is listed twice")

@@ -29,7 +29,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..model import Day, Shortfall, priority_units
-from .verify import _follows
+from .verify import _follows, triangle_failures
 
 __all__ = ["check_shortfall"]
 
@@ -54,11 +54,7 @@ def check_shortfall(day: Day, routes, certificate, shortfall: Shortfall) -> list
             failures.append(f"vehicle {number}: a job cannot follow the one before it")
     failures += _check_vehicles(day, routes)
     failures += _check_certificate(day, routes, certificate, unserved)
-    t = day.travel
-    for b in range(t.shape[0]):
-        if np.any(t[:, b, None] + t[None, b, :] < t):
-            failures.append("travel times break the triangle inequality")
-            break
+    failures += triangle_failures(day)
     failures += _check_proof(day, unserved, shortfall)
     return failures
 

@@ -22,7 +22,7 @@ import math
 import numpy as np
 
 from .._jit import jit
-from ..fleet.verify import _follows
+from ..fleet.verify import _follows, triangle_failures
 from ..model import Day
 
 __all__ = ["check_workday_plan", "heaviest_route_weight", "TOLERANCE"]
@@ -116,11 +116,7 @@ def check_workday_plan(day: Day, routes, certificate, weights: dict[int, float] 
             failures.append(f"vehicle {number}: a job cannot follow the one before it")
         if back[r[-1]] - leave[r[0]] > limit:
             failures.append(f"vehicle {number}: the working day is longer than the limit")
-    t = day.travel
-    for b in range(t.shape[0]):
-        if np.any(t[:, b, None] + t[None, b, :] < t):
-            failures.append("travel times break the triangle inequality")
-            break
+    failures += triangle_failures(day)
     failures += _check_certificate(day, limit, certificate, weights, lower_bound, len(routes))
     return failures
 
