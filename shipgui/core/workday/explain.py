@@ -226,7 +226,8 @@ def search_text(info: WorkdayInfo) -> str:
     if info.status == "stopped":
         return "the search was stopped"
     if info.status == "proven":
-        return "the search went through every possibility"
+        return ("the search went through every possibility" if info.minimum_by_search
+                else "the plan meets the proven bound")
     if info.status == "too large":
         return "a day this large gets a fast plan and bound only, without the full search"
     return f"the search ended ({info.status})"
