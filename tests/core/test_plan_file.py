@@ -23,7 +23,7 @@ def test_plan_document_round_trip(tmp_path):
     path = tmp_path / "day.shipgui"
     doc.save(path)
     data = json.loads(path.read_text(encoding="utf-8"))
-    assert data["format"] == "shipgui-plan" and data["schema_version"] == 1
+    assert data["format"] == "shipgui-plan" and data["schema_version"] == 2
     assert set(data["inputs"]) == {"jobs", "sites", "travel"}
     back = DayDocument.open(path)
     assert back.jobs == doc.jobs  # rows too: messages keep naming the jobs file's rows
@@ -147,3 +147,15 @@ def test_solve_reads_a_plan_file(tmp_path, capsys):
     assert json.loads(out.read_text())["vehicles"] == 2
     assert main(["solve", str(path), "--sites", str(path)]) == 2
     assert "plan file" in capsys.readouterr().err
+
+
+def test_a_version_1_plan_file_still_opens(tmp_path):
+    # Files saved before version 2 (no working-day limit, drivers by vehicle
+    # number) open as they were.
+    path = tmp_path / "old.shipgui"
+    path.write_text('{"format": "shipgui-plan", "schema_version": 1, "inputs": {"jobs": '
+                    '[{"job": "J1", "origin": "A", "start": "08:00", "end": "09:00"}]}, '
+                    '"settings": {"turnaround_seconds": 600}, "driver_names": {"1": "Ada"}}')
+    doc = DayDocument.open(path)
+    assert [j.id for j in doc.jobs] == ["J1"] and doc.settings.max_day is None
+    assert doc.settings.turnaround == 600

@@ -76,7 +76,7 @@ def test_a_recovery_file_from_a_newer_shipgui_is_kept_and_said(qtbot, app_settin
                                                                warnings):
     newer = tmp_path / "recovery" / "beef.shipgui"
     newer.parent.mkdir()
-    newer.write_text(_plan_text(version=2))
+    newer.write_text(_plan_text(version=3))
     content = newer.read_bytes()
     for start in (1, 2):
         _start(qtbot, app_settings)

@@ -38,7 +38,12 @@ __all__ = ["FORMAT", "SCHEMA_VERSION", "PLAN_SUFFIX", "inputs_to_json", "inputs_
            "plan_file_bytes", "write_plan_file", "read_plan_json", "read_plan_file"]
 
 FORMAT = "shipgui-plan"
-SCHEMA_VERSION = 1
+# Version 2 added what an older shipgui would silently drop: the longest working
+# day, the vehicles available, drivers tied to their jobs, job priority and
+# slot moves, rows of the source files.  An older program refuses a version-2
+# file with a clear message rather than plan it without its limits; this one
+# reads versions 1 and 2.
+SCHEMA_VERSION = 2
 PLAN_SUFFIX = ".shipgui"
 MAX_PLAN_BYTES = 64 * 1024 * 1024  # a 200 000-job day is about 40 MB of JSON
 
