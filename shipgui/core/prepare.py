@@ -73,13 +73,13 @@ def warm(family: str) -> None:
         maximum_matching(index, kernel="hopcroft-karp")  # phases from nothing
         return
     costs = least.class_costs(day, index)
-    net = least._network(costs, costs.index.latest >= 0)
+    net = least._network(costs, costs.index.latest >= 0, least._fixed_arcs(index))
     cap, price = net.cap.copy(), np.zeros(net.nodes, dtype=np.int64)
     excess = np.zeros(net.nodes, dtype=np.int64)
     stop = np.zeros(1, dtype=np.int64)
     if family == "cost scaling":
         cost_scaling(net.residual, cap, excess, price, 0, least._ALPHA, least._ALPHA, stop,
-                     np.ones(1, dtype=np.int64))
+                     np.ones(1, dtype=np.int64), net.scale // least._SETTLE)
     else:
         tighten_prices(net.residual, cap, price)
         repair(net.residual, cap, price, excess, stop)
@@ -105,7 +105,7 @@ def _entry_kernels(families: tuple[str, ...]) -> list:
     from .workday import _pricing_kernel as pricing
     from .workday import greedy, verify
     kernels = {"matching": [hk.greedy_start, hk._bfs, hk._dfs_phase],
-               "cost scaling": [flow.cost_scaling],
+               "cost scaling": [flow.residual_slots, flow.cost_scaling],
                "shortest paths": [flow.tighten_prices, flow.repair, flow.violated_links],
                "working day": [level.heaviest_ending, pricing.price_routes,
                                greedy._best_fit, verify._heaviest]}

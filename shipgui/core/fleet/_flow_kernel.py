@@ -19,7 +19,10 @@ are distance-like: the reduced cost of slot a from u to v is
 * :func:`violated_links`: the pricing step, over every compatible (job,
   group) pair without listing them.
 * :func:`tighten_prices`: queue relaxation until every residual arc has a
-  non-negative reduced cost (exact LP duals of an optimal flow).
+  non-negative reduced cost (exact LP duals of an optimal flow).  Cost scaling
+  also tries it, with bounded effort, after each phase once eps is small
+  ("price refinement", Goldberg 1997, section 7): when it succeeds the flow is
+  already optimal and the remaining phases are skipped.
 * :func:`repair`: re-balance a few units after arcs were added, by primal-dual
   shortest paths from exact duals (Ahuja, Magnanti & Orlin, Network Flows,
   1993, section 9.8).  The trade-off uses it too: one unit of excess at the
@@ -53,6 +56,38 @@ INF = np.int64(1) << np.int64(62)
 # because ``stop[0]`` was set (from another thread: the kernels release the GIL).
 DONE, NO_ROUTE, STOPPED = 1, 0, -1
 STOP_CHECK = 1023  # a kernel looks at its stop flag every 1 024 relabels or searches
+# Effort of one try at exact prices between cost-scaling phases: up to this many
+# times the nodes queued again (a failed try costs about that many passes over
+# the arcs; a flow that is already optimal usually settles in far fewer).
+_SETTLE_PASSES = 16
+
+
+@jit
+def residual_slots(tail, head, nodes):
+    """Where each arc and its reverse go in the residual network.
+
+    Arc a (``tail[a]`` -> ``head[a]``) has slot ``slot[a]``, its reverse slot
+    ``slot[len(tail) + a]``; slots are grouped by their own tail node, node u's
+    from ``first[u]`` to ``first[u + 1]``, each group in arc order (forward
+    arcs before reverses): what a stable sort by tail gives, by counting.
+    Returns (first, slot).
+    """
+    count = tail.shape[0]
+    first = np.zeros(nodes + 1, dtype=np.int64)
+    for a in range(count):
+        first[tail[a] + 1] += 1
+        first[head[a] + 1] += 1
+    for u in range(nodes):
+        first[u + 1] += first[u]
+    fill = first[:nodes].copy()
+    slot = np.empty(2 * count, dtype=np.int64)
+    for a in range(count):
+        slot[a] = fill[tail[a]]
+        fill[tail[a]] += 1
+    for a in range(count):
+        slot[count + a] = fill[head[a]]
+        fill[head[a]] += 1
+    return first, slot
 
 
 @jit(inline=True)
@@ -210,7 +245,7 @@ def _has_admissible(net, cap, price, current, v):
 
 
 @jit
-def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached):
+def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached, settle):
     """Route all ``excess`` (supplies > 0, demands < 0; sums to zero) at least cost.
 
     ``cap``, ``excess`` and ``price`` are changed in place (excess ends all
@@ -218,11 +253,20 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached
     largest absolute cost, right for any start with zero prices).  The first
     phase divides eps by ``first_alpha``, the others by ``alpha``; the last
     phase is the first with eps <= ``reached[0]`` (1: optimal), and ``reached[0]``
-    is then set to that eps (the flow is eps-optimal for the prices).  Returns
-    DONE, or NO_ROUTE when the supplies cannot be routed: then some price
-    falls further than a refine can move it when a routing exists (Goldberg &
-    Tarjan 1990: from an eps'-optimal start, by at most about (eps' + eps) *
-    n), or STOPPED when ``stop[0]`` was set (the flow is then unusable).
+    is then set to that eps (the flow is eps-optimal for the prices).
+
+    From the first phase ending with eps <= ``settle`` on (0: never), each
+    phase is followed by an attempt, of bounded effort, to make the prices
+    exact (:func:`tighten_prices`); when it succeeds the flow is optimal, the
+    scaling ends there and ``reached[0]`` is set to 0.  Worth it when costs
+    are multiples of a large scale: with eps far below it, only a cycle of
+    very many arcs could still have a negative cost.
+
+    Returns DONE, or NO_ROUTE when the supplies cannot be routed: then some
+    price falls further than a refine can move it when a routing exists
+    (Goldberg & Tarjan 1990: from an eps'-optimal start, by at most about
+    (eps' + eps) * n), or STOPPED when ``stop[0]`` was set (the flow is then
+    unusable).
     """
     first, head, rev, cost = net.first, net.head, net.rev, net.cost
     n = first.shape[0] - 1
@@ -232,6 +276,7 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached
     dist = np.empty(n, dtype=np.int64)
     done = np.empty(n, dtype=np.bool_)
     floor = np.empty(n, dtype=np.int64)
+    trial = np.empty(n, dtype=np.int64)
     buckets = Buckets(np.empty(n + 1, dtype=np.int64), np.empty(n, dtype=np.int64),
                       np.empty(n, dtype=np.int64))
     if eps <= 0:  # zero prices: any flow is eps-optimal for the largest |cost|
@@ -318,6 +363,14 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached
                         current[w] = first[w]
         if eps <= reached[0]:
             break
+        if eps <= settle:
+            for u in range(n):
+                trial[u] = price[u]
+            if _lower_prices(net, cap, trial, _SETTLE_PASSES * n):
+                for u in range(n):
+                    price[u] = trial[u]
+                reached[0] = 0
+                return DONE
     reached[0] = eps
     return DONE
 
@@ -328,6 +381,13 @@ def tighten_prices(net, cap, price):
 
     Returns False if that is impossible (a negative cycle: the flow is not optimal).
     """
+    return _lower_prices(net, cap, price, -1)
+
+
+@jit(inline=True)
+def _lower_prices(net, cap, price, effort):
+    """:func:`tighten_prices`; with ``effort`` >= 0 it also gives up (False, the
+    prices half changed) after that many nodes were queued again."""
     first, head, cost = net.first, net.head, net.cost
     n = first.shape[0] - 1
     queue = np.empty(n, dtype=np.int64)
@@ -337,6 +397,7 @@ def tighten_prices(net, cap, price):
         queue[u] = u
     qh = 0
     size = n
+    requeued = 0
     while size > 0:
         u = queue[qh]
         qh = (qh + 1) % n
@@ -350,7 +411,8 @@ def tighten_prices(net, cap, price):
                     price[v] = pu + cost[a]
                     if not in_queue[v]:
                         count[v] += 1
-                        if count[v] > n:
+                        requeued += 1
+                        if count[v] > n or requeued == effort:
                             return False
                         queue[(qh + size) % n] = v
                         size += 1

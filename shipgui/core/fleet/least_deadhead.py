@@ -49,6 +49,7 @@ from ._flow_kernel import (
     Residual,
     cost_scaling,
     repair,
+    residual_slots,
     tighten_prices,
     violated_links,
 )
@@ -62,6 +63,7 @@ class Stopped(Exception):
 
 _ALPHA = 32  # cost-scaling factor between phases
 _WARM_DIV = 1024  # a warm start begins near the final precision
+_SETTLE = 32  # try exact prices after each phase once eps < 1/32 s per arc
 _MARGIN_PERCENT = 5  # also price in arcs within 5 % of the worst violation (fewer rounds)
 _REPAIR_LIMIT = 100  # arcs priced in at once: re-optimise by shortest paths up to this
 _CANDIDATE_GROUPS = 12  # first round: link arcs from each successor's cheapest groups
@@ -149,56 +151,85 @@ class _Network:
         return self.cap[self.slot[self.links]] - cap[self.slot[self.links]]
 
 
-def _network(costs: ClassCosts, allowed: np.ndarray) -> _Network:
-    """The network with the link arcs of the ``allowed`` compatible (j, g) pairs."""
-    index = costs.index
-    m, n_groups = index.latest.shape
+@dataclass(frozen=True, eq=False)
+class _FixedArcs:
+    """The arcs that are the same in every round: source -> first positions,
+    the waiting chains, right copies -> sink (capacity, cost 0)."""
+
+    tail: np.ndarray
+    head: np.ndarray
+    cap: np.ndarray
+    start_pos: np.ndarray  # position of each source arc (the first arcs)
+    nodes: int
+
+    @property
+    def source(self) -> int:
+        return self.nodes - 2
+
+    @property
+    def sink(self) -> int:
+        return self.nodes - 1
+
+
+def _fixed_arcs(index: PrefixIndex) -> _FixedArcs:
+    m = index.m
     lat = index.latest
-    valid = lat >= 0
-    js, gs = np.nonzero(allowed & valid)  # by successor, then group
-    q = lat[js, gs].astype(np.int64)
     gpos = index.group_of_position()
     reach = lat.max(axis=0).astype(np.int64)  # last position of each group that links
     pos = np.arange(m, dtype=np.int64)
     useful = pos <= reach[gpos]
     nxt = pos + 1
     chain = useful & (nxt < index.group_start[gpos + 1]) & (nxt <= reach[gpos])
-    succ_jobs = np.flatnonzero(valid.any(axis=1))
+    succ_jobs = np.flatnonzero((lat >= 0).any(axis=1))
     source, sink = 2 * m, 2 * m + 1
-    n_nodes = 2 * m + 2
-    scale = n_nodes + 1  # costs x (nodes + 1): a 1-optimal flow is optimal
     start_pos = pos[useful]
-    parts = [  # (tail, head, capacity, cost); links last, so the others keep their numbers
-        (np.full(len(start_pos), source), start_pos, 1, 0),
-        (pos[chain], nxt[chain], m, 0),
-        (m + succ_jobs, np.full(len(succ_jobs), sink), 1, 0),
-        (q, m + js, 1, costs.cost_of(js, gs) * scale),
+    parts = [  # (tail, head, capacity)
+        (np.full(len(start_pos), source), start_pos, 1),
+        (pos[chain], nxt[chain], m),
+        (m + succ_jobs, np.full(len(succ_jobs), sink), 1),
     ]
-    sizes = [len(p[0]) for p in parts]
-    n_arcs = sum(sizes)
-    fixed = n_arcs - sizes[-1]
-    tail = np.concatenate([p[0] for p in parts]).astype(np.int64)
-    head = np.concatenate([p[1] for p in parts]).astype(np.int64)
-    cap = np.concatenate([np.full(k, p[2], dtype=np.int64) for p, k in zip(parts, sizes)])
-    cost = np.concatenate([np.full(k, p[3], dtype=np.int64) if np.isscalar(p[3])
-                           else p[3].astype(np.int64) for p, k in zip(parts, sizes)])
+    return _FixedArcs(
+        tail=np.concatenate([p[0] for p in parts]).astype(np.int64),
+        head=np.concatenate([p[1] for p in parts]).astype(np.int64),
+        cap=np.concatenate([np.full(len(p[0]), p[2], dtype=np.int64) for p in parts]),
+        start_pos=start_pos, nodes=2 * m + 2)
+
+
+def _network(costs: ClassCosts, allowed: np.ndarray, fixed: _FixedArcs) -> _Network:
+    """The network with the link arcs of the ``allowed`` (j, g) pairs (all of
+    them compatible) after the ``fixed`` arcs."""
+    index = costs.index
+    m, n_groups = index.latest.shape
+    js, gs = np.nonzero(allowed)  # by successor, then group
+    scale = fixed.nodes + 1  # costs x (nodes + 1): a 1-optimal flow is optimal
+    n_fixed = len(fixed.tail)
+    tail = np.concatenate([fixed.tail, index.latest[js, gs]]).astype(np.int64)
+    head = np.concatenate([fixed.head, m + js]).astype(np.int64)
+    n_arcs = len(tail)
+    cost = np.zeros(n_arcs, dtype=np.int64)
+    cost[n_fixed:] = costs.cost_of(js, gs) * scale
+    cap = np.ones(n_arcs, dtype=np.int64)
+    cap[:n_fixed] = fixed.cap
     # Residual slots: forward arcs, then their reverses (capacity 0, cost negated),
     # grouped by tail node.
-    all_tail = np.concatenate([tail, head])
-    order = np.argsort(all_tail, kind="stable")
-    slot = np.empty(2 * n_arcs, dtype=np.int64)
-    slot[order] = np.arange(2 * n_arcs)
-    partner = np.concatenate([np.arange(n_arcs, 2 * n_arcs), np.arange(n_arcs)])
+    first, slot = residual_slots(tail, head, fixed.nodes)
+    forward, backward = slot[:n_arcs], slot[n_arcs:]
     rev = np.empty(2 * n_arcs, dtype=np.int64)
-    rev[slot] = slot[partner]
-    first = np.searchsorted(all_tail[order], np.arange(n_nodes + 1)).astype(np.int64)
-    residual = Residual(first, np.concatenate([head, tail])[order], rev,
-                        np.concatenate([cost, -cost])[order])
+    rev[forward] = backward
+    rev[backward] = forward
+    res_head = np.empty(2 * n_arcs, dtype=np.int64)
+    res_head[forward] = head
+    res_head[backward] = tail
+    res_cost = np.empty(2 * n_arcs, dtype=np.int64)
+    res_cost[forward] = cost
+    res_cost[backward] = -cost
+    res_cap = np.zeros(2 * n_arcs, dtype=np.int64)
+    res_cap[forward] = cap
     return _Network(
-        residual=residual, cap=np.concatenate([cap, np.zeros(n_arcs, dtype=np.int64)])[order],
-        slot=slot[:n_arcs], fixed=fixed,
-        links=slice(fixed, n_arcs), start_pos=start_pos,
-        link_key=js.astype(np.int64) * n_groups + gs, source=source, sink=sink, scale=scale)
+        residual=Residual(first, res_head, rev, res_cost), cap=res_cap,
+        slot=forward, fixed=n_fixed, links=slice(n_fixed, n_arcs),
+        start_pos=fixed.start_pos, link_key=js.astype(np.int64) * n_groups + gs,
+        source=fixed.source, sink=fixed.sink, scale=scale)
 
 
 def _initial_allowed(costs: ClassCosts, groups: int) -> np.ndarray:
@@ -330,7 +361,8 @@ class _PricedFlow:
         self.stop = stop
         self.allowed = allowed
         self.rounds = 0
-        self.net = _network(costs, allowed)
+        self.fixed = _fixed_arcs(costs.index)
+        self.net = _network(costs, allowed, self.fixed)
         self.cap = self.net.cap.copy()
         self.price = np.zeros(self.net.nodes, dtype=np.int64)
         excess = np.zeros(len(self.price), dtype=np.int64)
@@ -348,8 +380,9 @@ class _PricedFlow:
         self.rounds += 1
         reached = np.array([max(1, _COARSE_SECONDS * net.scale) if coarse else 1],
                            dtype=np.int64)
+        settle = 0 if coarse else net.scale // _SETTLE
         status = cost_scaling(net.residual, self.cap, excess, self.price, eps, _ALPHA,
-                              _ALPHA if eps <= 0 else _WARM_DIV, self.stop, reached)
+                              _ALPHA if eps <= 0 else _WARM_DIV, self.stop, reached, settle)
         self._done(status, "the matching's links could not be routed")
         self.eps = int(reached[0]) if coarse else 0
         if not coarse and not tighten_prices(net.residual, self.cap, self.price):
@@ -395,7 +428,7 @@ class _PricedFlow:
             return None
         self.allowed.reshape(-1)[keys] = True
         old, old_cap = self.net, self.cap
-        net = _network(self.costs, self.allowed)
+        net = _network(self.costs, self.allowed, self.fixed)
         flow = np.zeros(len(net.slot), dtype=np.int64)
         flow[:old.fixed] = (old.cap - old_cap)[old.slot[:old.fixed]]
         flow[net.fixed + np.searchsorted(net.link_key, old.link_key)] = old.link_flow(old_cap)
