@@ -112,6 +112,26 @@ def test_verification_rejects_tampered_plans():
         assert check_plan(day, plan.routes, bad)
 
 
+def test_verification_names_each_broken_or_empty_vehicle():
+    # Routes are checked all at once: the messages must still name the right
+    # vehicles, in order, and a route that breaks across its end must not be
+    # blamed on its neighbour.
+    day = random_day(30, 3, seed=5)
+    plan = solve_day(day)
+    routes = [list(r) for r in plan.routes]
+    long = [k for k, r in enumerate(routes) if len(r) > 1]
+    assert len(long) >= 2
+    a, b = long[0], long[1]
+    routes[a] = routes[a][::-1]  # later job first: cannot follow
+    routes.insert(b + 1, [])  # an empty vehicle after b (b keeps its number)
+    failures = check_plan(day, [tuple(r) for r in routes], plan.certificate)
+    assert f"vehicle {a + 1}: a job cannot follow the one before it" in failures
+    assert f"vehicle {b + 2} has no jobs" in failures
+    assert not any(f.startswith(f"vehicle {b + 1}") for f in failures)
+    numbers = [int(f.split()[1].rstrip(":")) for f in failures if f.startswith("vehicle ")]
+    assert numbers == sorted(numbers) == [a + 1, b + 2]
+
+
 def test_vehicle_classes_never_mix():
     slots = [("A", "A", 0, 3600), ("A", "A", 7200, 9000)]
     jobs = [Job("J0", "A", "A", 0, 3600, "van"), Job("J1", "A", "A", 7200, 9000, "truck")]

@@ -94,11 +94,16 @@ def check_plan(day: Day, routes, certificate) -> list[str]:
     if np.any(counts != 1):
         failures.append(f"{int(np.sum(counts == 0))} jobs are in no route and "
                         f"{int(np.sum(counts > 1))} in more than one")
-    for number, route in enumerate(routes, start=1):
-        r = np.asarray(route, dtype=np.int64)
-        if len(r) == 0:
+    # Every pair of consecutive jobs of a route, all routes at once.
+    lengths = np.fromiter((len(route) for route in routes), np.int64, len(routes))
+    owner = np.repeat(np.arange(len(routes)), lengths)
+    pairs = np.flatnonzero(owner[:-1] == owner[1:])
+    broken = np.zeros(len(routes), dtype=bool)
+    broken[owner[pairs[~_follows(day, flat[pairs], flat[pairs + 1])]]] = True
+    for number in np.flatnonzero(broken | (lengths == 0)) + 1:
+        if lengths[number - 1] == 0:
             failures.append(f"vehicle {number} has no jobs")
-        elif len(r) > 1 and not np.all(_follows(day, r[:-1], r[1:])):
+        else:
             failures.append(f"vehicle {number}: a job cannot follow the one before it")
     if np.any(day.end <= day.start):
         failures.append("a job ends before it starts")
