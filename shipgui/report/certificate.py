@@ -19,6 +19,8 @@ How much is printed depends on N so that the pages stay bounded:
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 from reportlab.platypus import Flowable, KeepTogether, LongTable, Paragraph, Spacer, TableStyle
 
 from shipgui.core.clock import format_day_clock, format_duration
@@ -275,23 +277,32 @@ def _matrix(plan: Plan, *, title: str | None = None) -> list[Flowable]:
 
 
 def _closest_misses(plan: Plan) -> list[Flowable]:
+    return partner_table(plan, "comes closest to sharing a vehicle with", "Closest other job",
+                         closest_partners(plan.day, plan.certificate),
+                         lambda a, b: explain_pair(plan.day, a, b))
+
+
+def partner_table(plan: Plan, relation: str, partner_heading: str, partners,
+                  explain: Callable[[int, int], str]) -> list[Flowable]:
+    """A proof too large to list pair by pair: for each proof job, the other job
+    it ``relation`` (``partners[a]``: its place in the certificate, -1: none
+    of its class) and ``explain(job, other)``, why even they need two vehicles."""
     st = styles()
     cert = plan.certificate
     size = len(cert)
     intro = (f"All {size * (size - 1) // 2:,} pairs of these {size} jobs were checked by the "
              "independent verification of this plan. Listing them all would take too many "
-             "pages, so for each job the table shows the other job it comes closest to "
-             "sharing a vehicle with, and why even that does not work.")
+             f"pages, so for each job the table shows the other job it {relation}, "
+             "and why even that does not work.")
     rows = [[Paragraph(h, st["cell_head"]) for h in
-             ("#", "Job", "Closest other job", "Why they need two vehicles")]]
-    partners = closest_partners(plan.day, cert)
+             ("#", "Job", partner_heading, "Why they need two vehicles")]]
     for a in range(size):
         partner = int(partners[a])
         if partner < 0:
             reason = "Every other job in this set needs a different vehicle class."
             other = "\u2013"
         else:
-            reason = explain_pair(plan.day, cert[a], cert[partner])
+            reason = explain(cert[a], cert[partner])
             other = f"{partner + 1}: {plan.day.jobs[cert[partner]].id}"
         rows.append([Paragraph(str(a + 1), st["cell"]),
                      Paragraph(esc(plan.day.jobs[cert[a]].id, LIMITS["id"]), st["cell"]),

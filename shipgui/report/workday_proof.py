@@ -34,7 +34,7 @@ from shipgui.core.workday.explain import (
 )
 from shipgui.core.workday.verify import check_workday_plan, heaviest_route_weight
 
-from .certificate import MATRIX_UP_TO, SENTENCES_UP_TO, jobs_table, pair_matrix
+from .certificate import MATRIX_UP_TO, SENTENCES_UP_TO, jobs_table, pair_matrix, partner_table
 from .pages import SectionStart
 from .styles import (
     FAINT_GREY,
@@ -246,31 +246,10 @@ def _matrix(plan: Plan, title: str) -> list[Flowable]:
 
 
 def _nearest_fits(plan: Plan) -> list[Flowable]:
-    st = styles()
     cert, limit = plan.certificate, plan.workday.limit
-    size = len(cert)
-    intro = (f"All {size * (size - 1) // 2:,} pairs of these {size} jobs were checked by the "
-             "independent verification of this plan. Listing them all would take too many "
-             "pages, so for each job the table shows the other job it comes nearest to "
-             "fitting one working day with, and why even that does not work.")
-    rows = [[Paragraph(h, st["cell_head"]) for h in
-             ("#", "Job", "Nearest other job", "Why they need two vehicles")]]
-    partners = closest_fits(plan.day, cert, limit)
-    for a in range(size):
-        partner = int(partners[a])
-        if partner < 0:
-            reason, other = "Every other job in this set needs a different vehicle class.", \
-                "\u2013"
-        else:
-            reason = explain_fit(plan.day, cert[a], cert[partner], limit)
-            other = f"{partner + 1}: {plan.day.jobs[cert[partner]].id}"
-        rows.append([Paragraph(str(a + 1), st["cell"]),
-                     Paragraph(esc(plan.day.jobs[cert[a]].id, LIMITS["id"]), st["cell"]),
-                     Paragraph(esc(other, LIMITS["id"]), st["cell"]),
-                     Paragraph(esc(reason), st["cell_small"])])
-    table = LongTable(rows, colWidths=[28, 72, 90, FRAME_WIDTH - 190], repeatRows=1)
-    table.setStyle(TableStyle(grid_table_style()))
-    return [Paragraph(intro, st["body"]), table]
+    return partner_table(plan, "comes nearest to fitting one working day with",
+                         "Nearest other job", closest_fits(plan.day, cert, limit),
+                         lambda a, b: explain_fit(plan.day, a, b, limit))
 
 
 # ------------------------------------------------------------------ closing
