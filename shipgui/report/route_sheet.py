@@ -9,7 +9,8 @@ sign-off lines at the end.
 Every figure on the sheet is rounded once and the totals are sums of what is
 printed: each drive is rounded up to the minute, the empty driving in the
 header is the sum of those minutes, and the working day runs from the printed
-leaving time to the printed time back.
+leaving time to the printed time back.  That can print a minute or two over a
+working-day limit the route keeps to the second; the sheet then says so.
 """
 
 from __future__ import annotations
@@ -132,10 +133,14 @@ def _times_block(plan: Plan, v: VehicleDay) -> Table:
         working = v.working_day
     empty = sum(_shown_minutes(s) for s in (*v.before, v.pull_in))
     limit = day.settings.max_day
+    rounded_over = limit is not None and working > limit >= v.working_day
     figures = [f"{len(v.jobs)} job{'s' if len(v.jobs) != 1 else ''}",
                f"working day {format_duration(working)}"
                + (f" (limit {format_limit(limit)})" if limit is not None else ""),
                f"empty driving {format_duration(empty * 60)}"]
+    if rounded_over:  # the times are rounded outwards; the day itself keeps the limit
+        figures.insert(2, "over the limit only because the times are rounded outwards: "
+                          f"the day itself is {format_duration(v.working_day)} or less")
     km = route_km(plan, v.vehicle)
     if km is not None:
         figures.append(f"about {km:,.0f} km in all")
