@@ -18,7 +18,6 @@ on days written to CSV, with the default options.
 from __future__ import annotations
 
 import argparse
-import csv
 import json
 import os
 import resource
@@ -134,22 +133,8 @@ def straightforward_assignment(n: int) -> dict:
 
 
 def _write_day(n: int, folder: Path) -> tuple[Path, Path]:
-    from tests.support.days import regional_day
-    day = regional_day(n, SITES.get(n, 200), seed=n)
-    jobs, sites = Path(folder, "jobs.csv"), Path(folder, "sites.csv")
-    with open(jobs, "w", newline="") as f:
-        w = csv.writer(f)
-        w.writerow(["job", "origin", "destination", "start", "end"])
-        for j in day.jobs:
-            w.writerow([j.id, j.origin, j.destination, f"{j.start // 3600:02d}:"
-                        f"{j.start % 3600 // 60:02d}", f"{j.end // 3600:02d}:"
-                        f"{j.end % 3600 // 60:02d}"])
-    with open(sites, "w", newline="") as f:
-        w = csv.writer(f)
-        w.writerow(["site", "x_km", "y_km"])
-        for s in day.sites.values():
-            w.writerow([s.id, s.x_km, s.y_km])
-    return jobs, sites
+    from tests.support.days import write_regional_csv
+    return write_regional_csv(folder, n, SITES.get(n, 200))
 
 
 # The whole `shipgui solve` process, reporting its own peak memory at the end.

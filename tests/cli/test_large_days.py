@@ -1,7 +1,6 @@
 """Long solves on the command line: the time limit of the least-empty-driving
 stage, and the progress line on a terminal."""
 
-import csv
 import io
 import json
 
@@ -9,29 +8,11 @@ import pytest
 
 from shipgui.cli import main
 from shipgui.terminal import ProgressLine
-from tests.support.days import regional_day
-
-
-def _write_day(folder, n: int, sites: int):
-    day = regional_day(n, sites, seed=n)
-    jobs, site_file = folder / "jobs.csv", folder / "sites.csv"
-    with open(jobs, "w", newline="") as f:
-        w = csv.writer(f)
-        w.writerow(["job", "origin", "destination", "start", "end"])
-        for j in day.jobs:
-            w.writerow([j.id, j.origin, j.destination, f"{j.start // 3600:02d}:"
-                        f"{j.start % 3600 // 60:02d}", f"{j.end // 3600:02d}:"
-                        f"{j.end % 3600 // 60:02d}"])
-    with open(site_file, "w", newline="") as f:
-        w = csv.writer(f)
-        w.writerow(["site", "x_km", "y_km"])
-        for s in day.sites.values():
-            w.writerow([s.id, s.x_km, s.y_km])
-    return jobs, site_file
+from tests.support.days import write_regional_csv
 
 
 def test_time_limit_keeps_the_minimum_fleet_with_a_note(tmp_path, capsys):
-    jobs, sites = _write_day(tmp_path, 6000, 150)
+    jobs, sites = write_regional_csv(tmp_path, 6000, 150)
     out = tmp_path / "plan.json"
     code = main(["solve", str(jobs), "--sites", str(sites), "--turnaround", "10",
                  "--least-deadhead-time", "0.001", "--json", str(out)])

@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
+import csv
 import itertools
+from pathlib import Path
 
 import numpy as np
 
@@ -111,3 +113,23 @@ def with_priorities(day, rng, choices=(1, 2, 3, 0.5)):
     import dataclasses
     jobs = [dataclasses.replace(j, priority=float(rng.choice(choices))) for j in day.jobs]
     return rebuild(day, jobs=jobs)
+
+
+def write_regional_csv(folder: Path, n: int, sites: int) -> tuple[Path, Path]:
+    """:func:`regional_day` (seed ``n``) as a jobs CSV (times to the minute) and
+    a sites CSV in ``folder``; returns both paths."""
+    day = regional_day(n, sites, seed=n)
+    jobs, site_file = Path(folder, "jobs.csv"), Path(folder, "sites.csv")
+    with open(jobs, "w", newline="") as f:
+        w = csv.writer(f)
+        w.writerow(["job", "origin", "destination", "start", "end"])
+        for j in day.jobs:
+            w.writerow([j.id, j.origin, j.destination, f"{j.start // 3600:02d}:"
+                        f"{j.start % 3600 // 60:02d}", f"{j.end // 3600:02d}:"
+                        f"{j.end % 3600 // 60:02d}"])
+    with open(site_file, "w", newline="") as f:
+        w = csv.writer(f)
+        w.writerow(["site", "x_km", "y_km"])
+        for s in day.sites.values():
+            w.writerow([s.id, s.x_km, s.y_km])
+    return jobs, site_file
