@@ -287,6 +287,8 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached
                 eps = c
     divide = first_alpha
     while True:
+        if stop[0] != 0:
+            return STOPPED
         start_eps = eps  # the flow is start_eps-optimal now
         eps = max(np.int64(1), eps // divide)
         divide = alpha
@@ -366,11 +368,13 @@ def cost_scaling(net, cap, excess, price, eps, alpha, first_alpha, stop, reached
         if eps <= settle:
             for u in range(n):
                 trial[u] = price[u]
-            if _lower_prices(net, cap, trial, _SETTLE_PASSES * n):
+            if _lower_prices(net, cap, trial, _SETTLE_PASSES * n, stop):
                 for u in range(n):
                     price[u] = trial[u]
                 reached[0] = 0
                 return DONE
+            if stop[0] != 0:
+                return STOPPED
     reached[0] = eps
     return DONE
 
@@ -381,13 +385,14 @@ def tighten_prices(net, cap, price):
 
     Returns False if that is impossible (a negative cycle: the flow is not optimal).
     """
-    return _lower_prices(net, cap, price, -1)
+    return _lower_prices(net, cap, price, -1, np.zeros(1, dtype=np.int64))
 
 
 @jit(inline=True)
-def _lower_prices(net, cap, price, effort):
+def _lower_prices(net, cap, price, effort, stop):
     """:func:`tighten_prices`; with ``effort`` >= 0 it also gives up (False, the
-    prices half changed) after that many nodes were queued again."""
+    prices half changed) after that many nodes were queued again, or when
+    ``stop[0]`` is set."""
     first, head, cost = net.first, net.head, net.cost
     n = first.shape[0] - 1
     queue = np.empty(n, dtype=np.int64)
@@ -414,6 +419,8 @@ def _lower_prices(net, cap, price, effort):
                         requeued += 1
                         if count[v] > n or requeued == effort:
                             return False
+                        if requeued & STOP_CHECK == 0 and stop[0] != 0:
+                            return False
                         queue[(qh + size) % n] = v
                         size += 1
                         in_queue[v] = True
@@ -421,14 +428,16 @@ def _lower_prices(net, cap, price, effort):
 
 
 @jit(inline=True)
-def _dijkstra(net, cap, price, dist, via, heap, size, target, excess):
+def _dijkstra(net, cap, price, dist, via, heap, size, target, excess, stop):
     """Dijkstra on reduced costs from the nodes already in the heap (``size``
     of them, their ``dist`` set), until it settles ``target`` or, when target
     is -1, the first node with a negative ``excess``.  Fills dist and via (the
-    arc into each node); returns the node reached, or -1."""
+    arc into each node); returns the node reached, -1 if none, -2 when
+    ``stop[0]`` was set."""
     first, head, cost = net.first, net.head, net.cost
     n = first.shape[0] - 1
     done = np.zeros(n, dtype=np.bool_)
+    settled = 0
     while size > 0:
         d = heap.keys[0]
         u = heap.nodes[0]
@@ -436,6 +445,9 @@ def _dijkstra(net, cap, price, dist, via, heap, size, target, excess):
         if done[u]:
             continue
         done[u] = True
+        settled += 1
+        if settled & STOP_CHECK == 0 and stop[0] != 0:
+            return -2
         if u == target or (target < 0 and excess[u] < 0):
             return u
         pu = price[u]
@@ -492,7 +504,9 @@ def repair(net, cap, price, excess, stop):
                 size = _heap_push(heap, size, np.int64(0), v)
         if size == 0:
             return DONE
-        target = _dijkstra(net, cap, price, dist, via, heap, size, -1, excess)
+        target = _dijkstra(net, cap, price, dist, via, heap, size, -1, excess, stop)
+        if target == -2:
+            return STOPPED
         if target < 0:
             return NO_ROUTE
         _raise_prices(price, dist, dist[target])
