@@ -58,7 +58,7 @@ def warm(family: str) -> None:
     arguments built the way the solver builds them, so that the types (and
     hence the cached machine code) are the ones a solve needs."""
     from .fleet import least_deadhead as least
-    from .fleet._flow_kernel import cost_scaling, repair, tighten_prices, violated_links
+    from .fleet._flow_kernel import SETTLE, cost_scaling, repair, tighten_prices, violated_links
     from .fleet.matching import maximum_matching
     from .fleet.precedence import class_indexes
     if family not in FAMILIES + LATER:
@@ -79,7 +79,7 @@ def warm(family: str) -> None:
     stop = np.zeros(1, dtype=np.int64)
     if family == "cost scaling":
         cost_scaling(net.residual, cap, excess, price, 0, least._ALPHA, least._ALPHA, stop,
-                     np.ones(1, dtype=np.int64), net.scale // least._SETTLE)
+                     np.ones(1, dtype=np.int64), net.scale // SETTLE)
     else:
         tighten_prices(net.residual, cap, price)
         repair(net.residual, cap, price, excess, stop)

@@ -60,6 +60,9 @@ STOP_CHECK = 1023  # a kernel looks at its stop flag every 1 024 relabels or sea
 # times the nodes queued again (a failed try costs about that many passes over
 # the arcs; a flow that is already optimal usually settles in far fewer).
 _SETTLE_PASSES = 16
+# Callers whose costs are scaled by ``scale`` pass ``settle = scale // SETTLE``:
+# the tries start once eps is below 1/32 of a unit of the unscaled costs.
+SETTLE = 32
 
 
 @jit
@@ -70,7 +73,8 @@ def residual_slots(tail, head, nodes):
     ``slot[len(tail) + a]``; slots are grouped by their own tail node, node u's
     from ``first[u]`` to ``first[u + 1]``, each group in arc order (forward
     arcs before reverses): what a stable sort by tail gives, by counting.
-    Returns (first, slot).
+    ``rev[s]`` is the slot of the reverse of the arc in slot s.
+    Returns (first, slot, rev).
     """
     count = tail.shape[0]
     first = np.zeros(nodes + 1, dtype=np.int64)
@@ -87,7 +91,11 @@ def residual_slots(tail, head, nodes):
     for a in range(count):
         slot[count + a] = fill[head[a]]
         fill[head[a]] += 1
-    return first, slot
+    rev = np.empty(2 * count, dtype=np.int64)
+    for a in range(count):
+        rev[slot[a]] = slot[count + a]
+        rev[slot[count + a]] = slot[a]
+    return first, slot, rev
 
 
 @jit(inline=True)

@@ -44,6 +44,7 @@ import numpy as np
 from ..model import Day
 from ._flow_kernel import (
     DONE,
+    SETTLE,
     STOPPED,
     LinkCosts,
     Residual,
@@ -63,7 +64,6 @@ class Stopped(Exception):
 
 _ALPHA = 32  # cost-scaling factor between phases
 _WARM_DIV = 1024  # a warm start begins near the final precision
-_SETTLE = 32  # try exact prices after each phase once eps < 1/32 s per arc
 # Also price in the near misses, arcs within 2 % of the worst violation: they
 # save rounds, but each one makes every later phase slower (5 % added a third
 # more arcs at 50 000 jobs and cost a quarter more time).
@@ -218,11 +218,8 @@ def _network(costs: ClassCosts, allowed: np.ndarray, fixed: _FixedArcs) -> _Netw
     cap[:n_fixed] = fixed.cap
     # Residual slots: forward arcs, then their reverses (capacity 0, cost negated),
     # grouped by tail node.
-    first, slot = residual_slots(tail, head, fixed.nodes)
+    first, slot, rev = residual_slots(tail, head, fixed.nodes)
     forward, backward = slot[:n_arcs], slot[n_arcs:]
-    rev = np.empty(2 * n_arcs, dtype=np.int64)
-    rev[forward] = backward
-    rev[backward] = forward
     res_head = np.empty(2 * n_arcs, dtype=np.int64)
     res_head[forward] = head
     res_head[backward] = tail
@@ -386,7 +383,7 @@ class _PricedFlow:
         self.rounds += 1
         reached = np.array([max(1, _COARSE_SECONDS * net.scale) if coarse else 1],
                            dtype=np.int64)
-        settle = 0 if coarse else net.scale // _SETTLE
+        settle = 0 if coarse else net.scale // SETTLE
         status = cost_scaling(net.residual, self.cap, excess, self.price, eps, _ALPHA,
                               _ALPHA if eps <= 0 else _WARM_DIV, self.stop, reached, settle)
         self._done(status, "the matching's links could not be routed")

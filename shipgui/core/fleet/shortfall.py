@@ -41,7 +41,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..model import PRIORITY_UNIT, Day, ServiceProof, Shortfall, priority_units
-from ._flow_kernel import DONE, Residual, cost_scaling, residual_slots, tighten_prices
+from ._flow_kernel import DONE, SETTLE, Residual, cost_scaling, residual_slots, tighten_prices
 from ._level_kernel import heaviest_ending
 from .precedence import PrefixIndex
 
@@ -49,7 +49,6 @@ __all__ = ["Pool", "vehicle_pools", "ServedPlan", "serve_most", "service_levels"
            "Level", "proof_bound", "priority_value", "priority_text", "unserved_reasons"]
 
 _ALPHA = 32  # cost-scaling factor between phases
-_SETTLE = 32  # try exact prices after each phase once eps < 1/32 of a cost unit
 # Cost scaling keeps prices within about (nodes + 1) * (largest scaled cost); the
 # costs are scaled by nodes + 1 and reduced costs add two prices, so
 # 3 * (nodes + 1)^2 * (largest cost) must stay below 2^62 (INF of the kernels).
@@ -159,13 +158,10 @@ class _Flow:
         self.arcs = arcs
         count = len(arcs.tail)
         all_tail = np.concatenate([arcs.tail, arcs.head])
-        self.first, slot = residual_slots(arcs.tail.astype(np.int64),
-                                          arcs.head.astype(np.int64), arcs.nodes)
+        self.first, slot, self.rev = residual_slots(arcs.tail.astype(np.int64),
+                                                    arcs.head.astype(np.int64), arcs.nodes)
         order = np.empty(2 * count, dtype=np.int64)  # what each slot holds
         order[slot] = np.arange(2 * count)
-        partner = np.concatenate([np.arange(count, 2 * count), np.arange(count)])
-        self.rev = np.empty(2 * count, dtype=np.int64)
-        self.rev[slot] = slot[partner]
         self.order = order
         self.slot = slot[:count]  # residual slot of each forward arc
         self.head = np.concatenate([arcs.head, arcs.tail])[order]
@@ -193,7 +189,7 @@ class _Flow:
         never = np.zeros(1, dtype=np.int64)  # no stop flag: this stage is not bounded
         optimal = np.ones(1, dtype=np.int64)  # down to eps 1: optimal
         if cost_scaling(res, self.cap, excess, price, 0, _ALPHA, _ALPHA, never,
-                        optimal, self.scale // _SETTLE) != DONE:
+                        optimal, self.scale // SETTLE) != DONE:
             raise RuntimeError("vehicle-limit flow: the vehicles could not be routed")
         if not tighten_prices(res, self.cap, price):
             raise RuntimeError("vehicle-limit flow is not optimal (negative cycle)")
